@@ -277,7 +277,7 @@ def _first_root(c, n_samples=8, iterations=6):
         lo = np.where(g > 0, s, lo)
         hi = np.where(g <= 0, s, hi)
         s_new = s - g / np.where(dg != 0, dg, 1.0)
-        s = np.where((s_new > lo) & (s_new < hi), s_new, 0.5 * (lo + hi))
+        s = np.where((s_new >= lo) & (s_new <= hi), s_new, 0.5 * (lo + hi))
     return found, s
 
 

@@ -1,0 +1,121 @@
+"""A ball launched from a point (a coach's hand or a ball machine) flown to its first bounce."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from flight.aero import get_aero_model
+from flight.forces import FlightParams
+from flight.integrate import PlaneEvent, fly, ground_contact
+from rallyarc import config
+from rallyarc.court import net_height
+
+
+def ball_params(ball_name="itf_type2"):
+    """The ball preset as a dict with SI values and its radius."""
+    ball = config.load("balls", ball_name)
+    ball["radius_m"] = ball["diameter_m"] / 2.0
+    return ball
+
+
+def launch_velocity(speed, elevation, azimuth):
+    """Velocity vectors (N, 3) [m/s] from speed [m/s], elevation and azimuth [rad] (toward +x)."""
+    speed, elevation, azimuth = np.broadcast_arrays(
+        *(np.atleast_1d(np.asarray(a, float)) for a in (speed, elevation, azimuth))
+    )
+    return np.stack(
+        [
+            speed * np.cos(elevation) * np.cos(azimuth),
+            speed * np.cos(elevation) * np.sin(azimuth),
+            speed * np.sin(elevation),
+        ],
+        axis=1,
+    )
+
+
+def simulate_feed(
+    origin,
+    speed,
+    elevation,
+    azimuth,
+    spin,
+    spin_axis=(0.0, 1.0, 0.0),
+    ball="itf_type2",
+    aero=None,
+    air_density=1.225,
+    spin_decay_rate=0.0,
+    wind=(0.0, 0.0, 0.0),
+    singles=True,
+):
+    """Fly one fed ball to its first bounce and report the net crossing and the landing.
+
+    Parameters
+    ----------
+    origin : (3,) release point of the ball centre [m].
+    speed : launch speed [m/s]; elevation, azimuth : [rad]; spin : [rad/s] about ``spin_axis``
+        (court frame, normalised here; the default +y is topspin for a ball toward +x).
+
+    Returns
+    -------
+    dict
+        ``inputs`` (every parameter used, SI), ``net_crossing`` (or None) and ``landing``.
+    """
+    preset = ball_params(ball)
+    model = get_aero_model(aero or preset["aero_model"])
+    params = FlightParams(
+        mass=preset["mass_kg"],
+        radius=preset["radius_m"],
+        air_density=air_density,
+        aero=model,
+        spin_decay_rate=spin_decay_rate,
+        wind=wind,
+    )
+    axis = np.asarray(spin_axis, dtype=float)
+    axis = axis / np.linalg.norm(axis)
+    v0 = launch_velocity(speed, elevation, azimuth)
+    direction = 1 if v0[0, 0] >= 0 else -1
+    events = [
+        PlaneEvent("net", (1.0, 0.0, 0.0), 0.0, terminal=False, direction=direction),
+        ground_contact(params.radius),
+    ]
+    res = fly(np.asarray(origin, float)[None], v0, (spin * axis)[None], params, events, t_max=20.0)
+    net = res.events["net"]
+    net_out = None
+    if net.occurred[0]:
+        y, z = net.position[0, 1], net.position[0, 2]
+        net_out = {
+            "height_m": float(z),
+            "clearance_m": float(z - params.radius - net_height(y, singles)),
+            "y_m": float(y),
+            "t_s": float(net.t[0]),
+        }
+    vel = res.velocity[0]
+    landing = None
+    if res.ended_by("ground")[0]:
+        horizontal = float(np.hypot(vel[0], vel[1]))
+        landing = {
+            "x_m": float(res.position[0, 0]),
+            "y_m": float(res.position[0, 1]),
+            "t_s": float(res.t[0]),
+            "speed_mps": float(np.linalg.norm(vel)),
+            "angle_deg": float(np.degrees(np.arctan2(-vel[2], horizontal))),
+            "velocity_mps": [float(c) for c in vel],
+            "spin_rads": [float(c) for c in res.spin[0]],
+        }
+    inputs = {
+        "origin_m": [float(c) for c in origin],
+        "speed_mps": float(speed),
+        "elevation_rad": float(elevation),
+        "azimuth_rad": float(azimuth),
+        "spin_rads": float(spin),
+        "spin_axis": [float(c) for c in axis],
+        "ball": ball,
+        "mass_kg": params.mass,
+        "radius_m": params.radius,
+        "air_density_kgm3": float(air_density),
+        "aero_model": model.name,
+        "spin_decay_rate_per_s": spin_decay_rate,
+        "wind_mps": list(params.wind),
+        "gravity_mps2": params.gravity,
+    }
+    return {"inputs": inputs, "net_crossing": net_out, "landing": landing}

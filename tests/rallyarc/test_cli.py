@@ -1,0 +1,165 @@
+"""The command line: JSON shapes, values against published checks, one-line errors."""
+
+import json
+import math
+
+import pytest
+from click.testing import CliRunner
+
+from rallyarc.cli import main
+
+
+def run(*args):
+    result = CliRunner().invoke(main, list(args))
+    return result
+
+
+def run_json(*args):
+    result = run(*args, "--json")
+    assert result.exit_code == 0, result.output
+    return json.loads(result.output)
+
+
+def test_feed_json_has_inputs_net_and_landing():
+    data = run_json("feed", "--from", "-11,0,1", "--speed", "90km/h", "--elevation", "8")
+    for key in ("mass_kg", "radius_m", "air_density_kgm3", "aero_model", "speed_mps"):
+        assert key in data["inputs"]
+    assert data["inputs"]["speed_mps"] == pytest.approx(25.0)
+    assert set(data["net_crossing"]) >= {"height_m", "clearance_m", "y_m", "t_s"}
+    assert set(data["landing"]) >= {"x_m", "y_m", "t_s", "speed_mps", "angle_deg"}
+    assert data["landing"]["x_m"] > 0  # crosses to the far side
+
+
+def test_feed_in_vacuum_matches_the_parabola():
+    # exact: no air, no spin -> range of a projectile launched from height z0 to z = r
+    data = run_json(
+        "feed",
+        "--from",
+        "-11,0,1",
+        "--speed",
+        "20",
+        "--elevation",
+        "10",
+        "--spin",
+        "0",
+        "--air-density",
+        "0",
+    )
+    g, v, th, r = 9.80665, 20.0, math.radians(10), data["inputs"]["radius_m"]
+    vz = v * math.sin(th)
+    t = (vz + math.sqrt(vz**2 + 2 * g * (1 - r))) / g
+    assert data["landing"]["t_s"] == pytest.approx(t, abs=1e-6)
+    assert data["landing"]["x_m"] == pytest.approx(-11 + v * math.cos(th) * t, abs=1e-5)
+
+
+def test_feed_that_falls_short_has_no_net_crossing():
+    data = run_json("feed", "--from", "-11,0,1", "--speed", "5", "--elevation", "0")
+    assert data["net_crossing"] is None
+
+
+def test_bounce_pace_test_geometry():
+    # REFERENCES.md worked value (sliding at 30 m/s, 16 deg, mu 0.6, e 0.8): vx 19.907, vz 6.615
+    data = run_json(
+        "bounce", "--speed", "30", "--angle", "16", "--friction", "0.6", "--restitution", "0.8"
+    )
+    assert data["vx_mps"] == pytest.approx(19.907, abs=1e-3)
+    assert data["vz_mps"] == pytest.approx(6.615, abs=1e-3)
+    assert data["regime"] == "slide"
+
+
+def test_bounce_grip_worked_value():
+    # REFERENCES.md: v = (15, -15) m/s, no spin, mu 0.6, e 0.8 -> grip, vx 9.6774, vz 12.0
+    data = run_json(
+        "bounce",
+        "--speed",
+        str(15 * math.sqrt(2)),
+        "--angle",
+        "45",
+        "--friction",
+        "0.6",
+        "--restitution",
+        "0.8",
+    )
+    assert data["regime"] == "grip"
+    assert data["vx_mps"] == pytest.approx(9.6774, abs=1e-3)
+    assert data["vz_mps"] == pytest.approx(12.0, abs=1e-6)
+
+
+def test_surface_worked_values():
+    # REFERENCES.md (ITF CS 01/02): mu 0.6, e 0.80 -> CPR 41.5 (category 4); mu 0.5 -> 51.5 (5)
+    data = run_json("surface", "--friction", "0.6", "--restitution", "0.8")
+    assert data["court_pace_rating"] == pytest.approx(41.5, abs=0.05)
+    assert data["category"] == 4
+    assert data["measured_friction"] == pytest.approx(0.6, abs=1e-9)
+    data = run_json("surface", "--friction", "0.5", "--restitution", "0.8")
+    assert data["court_pace_rating"] == pytest.approx(51.5, abs=0.05)
+    assert data["category"] == 5
+
+
+@pytest.mark.parametrize(
+    "name", ["clay", "hard_slow", "hard_medium", "hard_fast", "grass", "carpet"]
+)
+def test_surface_presets_land_in_their_category(name):
+    from rallyarc import config
+
+    data = run_json("surface", "--preset", name)
+    assert data["category"] == config.load("surfaces", name)["pace_category"]
+
+
+def test_clay_grips_in_the_pace_test_and_says_so():
+    data = run_json("surface", "--preset", "clay")
+    assert data["ball_gripped"] is True
+    assert data["measured_friction"] < data["surface_friction"]
+    assert data["note"]
+
+
+@pytest.mark.parametrize(
+    "args, option",
+    [
+        (["feed", "--speed", "-5"], "--speed"),
+        (["feed", "--speed", "fast"], "--speed"),
+        (["feed", "--elevation", "nan"], "--elevation"),
+        (["feed", "--from", "1,2"], "--from"),
+        (["feed", "--ball", "nosuchball"], "ball preset"),
+        (["feed", "--aero", "magic"], "--aero"),
+        (
+            [
+                "bounce",
+                "--speed",
+                "20",
+                "--angle",
+                "20",
+                "--friction",
+                "0.5",
+                "--restitution",
+                "1.5",
+            ],
+            "--restitution",
+        ),
+        (["bounce", "--speed", "20", "--angle", "20", "--surface", "ice"], "surface preset"),
+        (["surface", "--friction", "2.5", "--restitution", "0.8"], "--friction"),
+        (
+            ["surface", "--friction", "0.5", "--restitution", "0.8", "--temperature", "90"],
+            "--temperature",
+        ),
+        (["feed", "--nonsense"], "--nonsense"),
+    ],
+)
+def test_bad_input_is_one_line_with_exit_code_2(args, option):
+    result = run(*args)
+    assert result.exit_code == 2
+    lines = result.output.strip().splitlines()
+    assert len(lines) == 1 and option in lines[0]
+    assert "Traceback" not in result.output
+
+
+def test_bad_surface_file_names_file_and_key(tmp_path):
+    bad = tmp_path / "wet.toml"
+    bad.write_text('name = "x"\nsource = "y"\nfriction = 0.5\nrestitution = 1.4\n')
+    result = run("surface", "--preset", str(bad))
+    assert result.exit_code == 2
+    assert "wet.toml" in result.output and "restitution" in result.output
+    bad.write_text('name = "x"\nsource = "y"\nfriction = 0.5\nrestitutoin = 0.8\n')
+    assert "restitutoin" in run("surface", "--preset", str(bad)).output
+    bad.write_text('name = "x\n')
+    assert "TOML syntax" in run("surface", "--preset", str(bad)).output
