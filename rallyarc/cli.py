@@ -218,10 +218,12 @@ def surface(friction, restitution, preset, temperature, as_json):
         "note": rating.note,
     }
     lines = [
-        f"surface:            {name or 'custom'} (mu {surf.friction:.3f}, e {surf.restitution:.3f})",
+        f"surface:            {name or 'custom'} "
+        f"(mu {surf.friction:.3f}, e {surf.restitution:.3f})",
         f"court pace rating:  {data['court_pace_rating']:.1f}, category {data['category']} "
         f"({data['category_name']})",
-        f"measured in test:   mu {data['measured_friction']:.3f}, e {data['measured_restitution']:.3f}"
+        f"measured in test:   mu {data['measured_friction']:.3f}, "
+        f"e {data['measured_restitution']:.3f}"
         f" (e at {temp:g} C corrected to {data['temperature_corrected_restitution']:.3f})",
     ]
     if rating.ball_gripped:
