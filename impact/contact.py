@@ -295,23 +295,24 @@ def collide(
     dv_c = -(k_r[:, 1, 0] * jt_a + k_r[:, 1, 1] * jt_c)
     d_face = dv_a[:, None] * a + dv_c[:, None] * c - (j_n * inv_big_m)[:, None] * n
 
-    # Coach quantities.
+    # Coach quantities (ratios of tiny nonzero speeds may be huge; they overflow to inf).
     linear_mag = _norm(v_rel_t)
-    slip_ratio = np.divide(
-        _dot(spin_slip, v_rel_t),
-        linear_mag**2,
-        out=np.full(n_balls, np.nan),
-        where=linear_mag > 0.0,
-    )
     remaining = v_out - (face_v + d_face)
     remaining_t = remaining - _dot(remaining, n)[:, None] * n
     remaining_mag = _norm(remaining_t)
-    spin_ratio_out = np.divide(
-        _norm(np.cross(w_out, lever)),
-        remaining_mag,
-        out=np.full(n_balls, np.nan),
-        where=remaining_mag > 0.0,
-    )
+    with np.errstate(over="ignore"):
+        spin_along = np.divide(
+            _dot(spin_slip, v_rel_t), linear_mag, out=np.zeros(n_balls), where=linear_mag > 0.0
+        )
+        slip_ratio = np.divide(
+            spin_along, linear_mag, out=np.full(n_balls, np.nan), where=linear_mag > 0.0
+        )
+        spin_ratio_out = np.divide(
+            _norm(np.cross(w_out, lever)),
+            remaining_mag,
+            out=np.full(n_balls, np.nan),
+            where=remaining_mag > 0.0,
+        )
     spin_limit_reached = approaching & (np.hypot(jt_a, jt_c) >= stop_mag)
 
     return ContactResult(
