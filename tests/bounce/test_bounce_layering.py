@@ -1,0 +1,50 @@
+"""bounce is pure physics: it imports numpy (scipy if ever), the standard library and itself."""
+
+import ast
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+FORBIDDEN = ("rallyarc", "impact", "flight", "viz", "click", "matplotlib", "pyvista")
+ROOT = Path(__file__).resolve().parents[2]
+PACKAGE_DIR = ROOT / "bounce"
+
+
+def test_importing_bounce_loads_none_of_the_forbidden_packages():
+    code = (
+        "import json, sys\n"
+        "import bounce, bounce.ball, bounce.contact, bounce.pace\n"
+        "print(json.dumps([bounce.__file__, sorted(sys.modules)]))\n"
+    )
+    completed = subprocess.run(
+        [sys.executable, "-c", code],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+        check=True,
+        timeout=60,
+    )
+    package_file, loaded = json.loads(completed.stdout)
+    assert Path(package_file).resolve() == PACKAGE_DIR / "__init__.py"
+    assert "numpy" in loaded and "bounce.contact" in loaded
+    offending = sorted(name for name in loaded if name.split(".")[0] in FORBIDDEN)
+    assert offending == []
+
+
+def test_bounce_sources_import_only_numpy_scipy_stdlib_and_bounce():
+    allowed = {"numpy", "scipy", "bounce"} | set(sys.stdlib_module_names)
+    sources = sorted(PACKAGE_DIR.glob("*.py"))
+    assert {p.name for p in sources} >= {"__init__.py", "ball.py", "contact.py", "pace.py"}
+    offending = []
+    for path in sources:
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        for node in ast.walk(tree):
+            if isinstance(node, ast.Import):
+                names = [alias.name for alias in node.names]
+            elif isinstance(node, ast.ImportFrom) and node.level == 0:
+                names = [node.module or ""]
+            else:
+                continue
+            offending += [f"{path.name}: {n}" for n in names if n.split(".")[0] not in allowed]
+    assert offending == []
