@@ -64,6 +64,10 @@ class PlaneEvent:
         Whether the flight ends at the crossing.
     direction : int
         +1 counts crossings where ``normal . x - offset`` increases, -1 where it decreases, 0 both.
+    on : str
+        ``"position"`` (default): the plane is in space, ``normal . x = offset``.
+        ``"velocity"``: the plane is in velocity space, ``normal . v = offset``; with normal
+        (0, 0, 1), offset 0 and direction -1 it is the apex of the flight (:func:`apex`).
     """
 
     name: str
@@ -71,10 +75,13 @@ class PlaneEvent:
     offset: object = 0.0
     terminal: bool = False
     direction: int = 0
+    on: str = "position"
 
     def __post_init__(self):
         if self.direction not in (-1, 0, 1):
             raise ValueError("direction must be -1, 0 or +1")
+        if self.on not in ("position", "velocity"):
+            raise ValueError("on must be 'position' or 'velocity'")
         object.__setattr__(self, "normal", tuple(float(c) for c in self.normal))
 
 
@@ -86,6 +93,11 @@ def net_plane(direction=1):
 def ground_contact(radius):
     """Ground contact: the ball's centre at z = r while descending; terminal."""
     return PlaneEvent("ground", (0.0, 0.0, 1.0), radius, terminal=True, direction=-1)
+
+
+def apex(name="apex"):
+    """The top of the flight: vertical velocity passes from up to down; not terminal."""
+    return PlaneEvent(name, (0.0, 0.0, 1.0), 0.0, terminal=False, direction=-1, on="velocity")
 
 
 @dataclass
@@ -294,6 +306,14 @@ def _crossings(event, normal, offset, sense, h, ends):
     def proj(vec, scale):
         return sign * scale * (n * vec).sum(axis=0)
 
+    if event.on == "velocity":
+        # cubic Hermite of n . v from the velocities and accelerations at both ends
+        p0 = sign * ((n * v0).sum(axis=0) - offset)
+        p1 = sign * ((n * v1).sum(axis=0) - offset)
+        q0, q1 = proj(a0, h), proj(a1, h)
+        zero = np.zeros_like(p0)
+        c = (p0, q0, -3 * p0 - 2 * q0 + 3 * p1 - q1, 2 * p0 + q0 - 2 * p1 + q1, zero, zero)
+        return _first_root(c)
     c = _quintic_coefficients(
         sign * ((n * x0).sum(axis=0) - offset),
         proj(v0, h),
@@ -305,7 +325,7 @@ def _crossings(event, normal, offset, sense, h, ends):
     return _first_root(c)
 
 
-def _state_on_plane(rhs, params, normal, offset, t, h_sub, start, spin0):
+def _state_on_plane(rhs, params, event, normal, offset, t, h_sub, start, spin0):
     """Time, position and velocity where balls meet a plane inside an accepted step.
 
     The interpolant gives the fraction of the step; a fresh Dormand-Prince step of that length
@@ -314,7 +334,11 @@ def _state_on_plane(rhs, params, normal, offset, t, h_sub, start, spin0):
     """
     x0, v0, a0 = start
     x, v, a, _, _ = _dp_step(rhs, t, x0, v0, a0, h_sub, spin0)
-    dt = -(normal @ x - offset) / (normal @ v)
+    if event.on == "velocity":
+        slope = normal @ a
+        dt = -(normal @ v - offset) / np.where(slope != 0, slope, 1.0)
+    else:
+        dt = -(normal @ x - offset) / (normal @ v)
     x = x + v * dt + 0.5 * a * dt * dt
     v = v + a * dt
     return t + h_sub + dt, x, v
@@ -325,8 +349,9 @@ def _event_roots(events, normals, offsets, gi, h, ends, rec):
     hits = []
     for j, ev in enumerate(events):
         off = offsets[j][gi]
-        g_old = normals[j] @ ends[0] - off
-        g_new = normals[j] @ ends[3] - off
+        first = 1 if ev.on == "velocity" else 0
+        g_old = normals[j] @ ends[first] - off
+        g_new = normals[j] @ ends[first + 3] - off
         sense = np.full(gi.size, ev.direction) if ev.direction else np.sign(g_new - g_old)
         cand = np.flatnonzero(
             (sense * g_old <= 0) & (sense * g_new >= 0) & (sense != 0) & ~rec[ev.name].occurred[gi]
@@ -513,6 +538,7 @@ def _fly_chunk(x_in, v_in, w_in, params, events, offsets, t0_in, t_max, rtol, at
             t_ev, pos, vel = _state_on_plane(
                 rhs,
                 params,
+                ev,
                 normals[events.index(ev)],
                 offsets[events.index(ev)][gi[cand]],
                 t_acc[cand],

@@ -7,7 +7,7 @@ from scipy.integrate import solve_ivp
 from flight.aero import ConstantAero, StepanekAero, get_aero_model
 from flight.air import air_density, isa_density
 from flight.forces import FlightParams, acceleration
-from flight.integrate import fly, ground_contact, net_plane
+from flight.integrate import apex, fly, ground_contact, net_plane
 
 RPM = np.pi / 30.0
 
@@ -144,6 +144,38 @@ def test_batch_matches_solve_ivp_dop853():
             assert net.occurred[i]
             assert abs(net.t[i] - ref.t_events[1][0]) < 1e-4
             assert np.linalg.norm(net.position[i] - ref.y_events[1][0][:3]) < 1e-3
+
+
+def test_apex_matches_solve_ivp_dop853_event():
+    # Reference: scipy solve_ivp DOP853 rtol 1e-10 with an event on the vertical velocity.
+    params = FlightParams()
+    x, v, w = random_shots(40, seed=13)
+    v[:, 2] = np.abs(v[:, 2]) + 2.0  # every ball rises first
+    res = fly(x, v, w, params, [apex(), ground_contact(params.radius)])
+    top = res.events["apex"]
+    assert np.all(top.occurred)
+    assert np.all(np.abs(top.velocity[:, 2]) < 1e-6)
+    for i in range(40):
+        wi = w[i]
+
+        def rhs(t, y, wi=wi):
+            return np.concatenate([y[3:], acceleration(y[3:][None], wi[None], params)[0]])
+
+        def rising(t, y):
+            return y[5]
+
+        rising.direction = -1
+        ref = solve_ivp(
+            rhs,
+            (0, 10),
+            np.concatenate([x[i], v[i]]),
+            method="DOP853",
+            rtol=1e-10,
+            atol=1e-12,
+            events=[rising],
+        )
+        assert abs(top.t[i] - ref.t_events[0][0]) < 1e-4
+        assert np.linalg.norm(top.position[i] - ref.y_events[0][0][:3]) < 1e-3
 
 
 def test_wind_matches_solve_ivp():
