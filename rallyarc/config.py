@@ -17,23 +17,54 @@ from rallyarc.errors import InputError
 
 @dataclass(frozen=True)
 class Key:
-    """One allowed key: its type, range and whether it must be given."""
+    """One allowed key: its type, range and whether it must be given.
 
-    kind: type
+    ``kind`` is ``float``, ``int``, ``str`` or ``bool``; ``"vector"`` for a list of three numbers
+    each within ``[low, high]``; ``"names"`` for a non-empty list of strings; ``"table"`` for a
+    TOML table checked against the schema in ``table``.
+    """
+
+    kind: object
     low: float | None = None
     high: float | None = None
     required: bool = True
     choices: tuple = ()
+    table: dict | None = None
 
     def describe(self):
         if self.choices:
             return "one of " + ", ".join(self.choices)
         if self.kind is str:
             return "a string"
-        return f"a number from {self.low} to {self.high}"
+        if self.kind is bool:
+            return "true or false"
+        if self.kind == "vector":
+            return f"a list of 3 numbers, each from {self.low:g} to {self.high:g}"
+        if self.kind == "names":
+            return "a non-empty list of names"
+        if self.kind == "table":
+            return "a table with keys " + ", ".join(self.table)
+        if self.kind is int:
+            return f"a whole number from {self.low:g} to {self.high:g}"
+        return f"a number from {self.low:g} to {self.high:g}"
 
 
 AERO_CHOICES = ("stepanek1988", "cross_lindsey2014", "constant")
+
+_TOSS = {
+    "contact_m": Key("vector", -15.0, 15.0),
+    "apex_above_contact_m": Key(float, 0.0, 3.0),
+    "spin_rpm": Key(float, -1000.0, 1000.0, required=False),
+}
+
+_INCOMING = {
+    "position_m": Key("vector", -20.0, 20.0),
+    "speed_kmh": Key(float, 0.0, 250.0),
+    "descent_deg": Key(float, -80.0, 89.0),
+    "azimuth_deg": Key(float, 90.0, 270.0, required=False),
+    "spin_rpm": Key(float, -6000.0, 6000.0, required=False),
+    "sidespin_rpm": Key(float, -6000.0, 6000.0, required=False),
+}
 
 SCHEMAS = {
     "surfaces": {
@@ -52,7 +83,59 @@ SCHEMAS = {
         "diameter_m": Key(float, 0.04, 0.12),
         "alpha": Key(float, 0.3, 2.0 / 3.0),
         "rebound_cm": Key(float, 50.0, 254.0),
+        "rebound_min_cm": Key(float, 50.0, 254.0),
+        "rebound_max_cm": Key(float, 50.0, 254.0),
+        "restitution": Key(float, 0.3, 1.0),
         "aero_model": Key(str, choices=AERO_CHOICES),
+    },
+    "rackets": {
+        "name": Key(str),
+        "source": Key(str),
+        "length_m": Key(float, 0.45, 0.737),
+        "mass_kg": Key(float, 0.15, 0.5),
+        "balance_m": Key(float, 0.15, 0.45),
+        "swingweight_kgm2": Key(float, 0.01, 0.06),
+        "twistweight_kgm2": Key(float, 0.0005, 0.004, required=False),
+        "string_restitution": Key(float, 0.0, 1.0),
+        "string_friction": Key(float, 0.0, 2.0),
+    },
+    "air": {
+        "name": Key(str),
+        "source": Key(str),
+        "altitude_m": Key(float, -500.0, 5000.0),
+        "temperature_c": Key(float, -20.0, 50.0),
+        "relative_humidity": Key(float, 0.0, 1.0),
+        "pressure_pa": Key(float, 50000.0, 110000.0, required=False),
+        "wind_mps": Key("vector", -30.0, 30.0, required=False),
+    },
+    "strokes": {
+        "name": Key(str),
+        "source": Key(str),
+        "kind": Key(str, choices=("groundstroke", "serve")),
+        "head_speed_kmh": Key(float, 5.0, 250.0),
+        "swing_path_deg": Key(float, -60.0, 80.0),
+        "swing_direction_deg": Key(float, -60.0, 60.0, required=False),
+        "face_tilt_deg": Key(float, -60.0, 60.0),
+        "face_azimuth_deg": Key(float, -60.0, 60.0, required=False),
+        "racket_roll_deg": Key(float, -180.0, 180.0, required=False),
+        "impact_from_butt_m": Key(float, 0.3, 0.7, required=False),
+        "impact_offaxis_m": Key(float, -0.12, 0.12, required=False),
+        "toss": Key("table", table=_TOSS, required=False),
+    },
+    "scenarios": {
+        "name": Key(str),
+        "source": Key(str),
+        "description": Key(str),
+        "player": Key(str),
+        "club": Key(str),
+        "ball": Key(str),
+        "racket": Key(str),
+        "air": Key(str),
+        "surface": Key(str),
+        "singles": Key(bool, required=False),
+        "receiver_plane_m": Key(float, 0.0, 10.0, required=False),
+        "strokes": Key("names"),
+        "incoming": Key("table", table=_INCOMING, required=False),
     },
 }
 
@@ -83,29 +166,67 @@ def _read(kind, name_or_path):
     return f"configs/{kind}/{text_path}.toml", item.read_text(encoding="utf-8")
 
 
-def validate(kind, data, where):
-    """Check ``data`` against the schema of ``kind``; return it with numbers as floats."""
-    schema = SCHEMAS[kind]
+def _number(value, spec, label):
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+    if spec.kind is int and value != int(value):
+        raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+    if not (math.isfinite(value) and spec.low <= value <= spec.high):
+        raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+    return int(value) if spec.kind is int else float(value)
+
+
+def _check(schema, data, where, prefix=""):
     for key in data:
         if key not in schema:
-            raise InputError(f"{where}: unknown key {key!r}; allowed keys: " + ", ".join(schema))
+            raise InputError(
+                f"{where}: unknown key {prefix + key!r}; allowed keys: "
+                + ", ".join(prefix + k for k in schema)
+            )
     out = {}
     for key, spec in schema.items():
+        label = f"{where}: key {prefix + key!r}"
         if key not in data:
             if spec.required:
-                raise InputError(f"{where}: missing key {key!r} ({spec.describe()})")
+                raise InputError(f"{where}: missing key {prefix + key!r} ({spec.describe()})")
             continue
         value = data[key]
         if spec.kind is str:
             if not isinstance(value, str) or (spec.choices and value not in spec.choices):
-                raise InputError(f"{where}: key {key!r} must be {spec.describe()}, got {value!r}")
+                raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+        elif spec.kind is bool:
+            if not isinstance(value, bool):
+                raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+        elif spec.kind == "vector":
+            if not isinstance(value, list) or len(value) != 3:
+                raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+            value = [_number(v, spec, label) for v in value]
+        elif spec.kind == "names":
+            if not (value and isinstance(value, list) and all(isinstance(v, str) for v in value)):
+                raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+        elif spec.kind == "table":
+            if not isinstance(value, dict):
+                raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+            value = _check(spec.table, value, where, prefix + key + ".")
         else:
-            if isinstance(value, bool) or not isinstance(value, int | float):
-                raise InputError(f"{where}: key {key!r} must be {spec.describe()}, got {value!r}")
-            if not (math.isfinite(value) and spec.low <= value <= spec.high):
-                raise InputError(f"{where}: key {key!r} must be {spec.describe()}, got {value!r}")
-            value = int(value) if spec.kind is int else float(value)
+            value = _number(value, spec, label)
         out[key] = value
+    return out
+
+
+def validate(kind, data, where):
+    """Check ``data`` against the schema of ``kind``; return it with numbers as floats."""
+    out = _check(SCHEMAS[kind], data, where)
+    if kind == "balls":
+        low, high = out["rebound_min_cm"], out["rebound_max_cm"]
+        if not low <= out["rebound_cm"] <= high:
+            raise InputError(
+                f"{where}: key 'rebound_cm' must lie from rebound_min_cm {low:g} "
+                f"to rebound_max_cm {high:g}, got {out['rebound_cm']:g}"
+            )
+    if kind == "rackets" and out["balance_m"] >= out["length_m"]:
+        raise InputError(f"{where}: key 'balance_m' must be less than length_m")
+    out["where"] = where
     return out
 
 
