@@ -295,5 +295,275 @@ def bounce_cmd(speed, angle, spin, surface_name, friction, restitution, ball, as
     _emit(data, as_json, lines)
 
 
+# ----------------------------------------------------------------------------- whole shots
+
+_SCENARIO_HELP = "Scenario preset or TOML file: conditions and incoming ball."
+
+
+def _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane):
+    """The scenario with any condition the user overrides."""
+    from dataclasses import replace
+
+    from rallyarc import domain
+
+    sc = domain.load_scenario(scenario)
+    cond = sc.conditions
+    changes = {}
+    if ball is not None:
+        changes["ball"] = domain.load_ball(ball)
+    if racket is not None:
+        changes["racket"] = domain.load_racket(racket)
+    if air is not None:
+        changes["air"] = domain.load_air(air)
+    if surface_name is not None:
+        changes["surface"] = domain.load_surface(surface_name)
+        changes["surface_name"] = surface_name
+    if receiver_plane is not None:
+        changes["receiver_plane_m"] = units.number(receiver_plane, "--receiver-plane", 0.0, 10.0)
+    return replace(sc, conditions=replace(cond, **changes)) if changes else sc
+
+
+def _condition_options(func):
+    for opt in reversed(
+        [
+            click.option("--ball", default=None, help="Ball preset or TOML file."),
+            click.option("--racket", default=None, help="Racket preset or TOML file."),
+            click.option("--air", default=None, help="Air preset or TOML file."),
+            click.option("--surface", "surface_name", default=None, help="Surface preset or file."),
+            click.option(
+                "--receiver-plane",
+                default=None,
+                help="Receiver's contact plane behind the far baseline [m], 0 to 10.",
+            ),
+        ]
+    ):
+        func = opt(func)
+    return func
+
+
+@main.command()
+@click.option(
+    "--stroke", default="topspin_drive", show_default=True, help="Stroke preset or TOML file."
+)
+@click.option("--scenario", default="demo", show_default=True, help=_SCENARIO_HELP)
+@click.option(
+    "--head-speed", default=None, help="Override: racket speed at impact (km/h, mph, m/s)."
+)
+@click.option("--swing-path", default=None, help="Override: swing path above horizontal [deg].")
+@click.option("--face-tilt", default=None, help="Override: face tilt, open positive [deg].")
+@click.option("--swing-direction", default=None, help="Override: swing direction, + left [deg].")
+@click.option("--contact", default=None, help="Override: contact point X,Y,Z [m].")
+@click.option("--incoming-speed", default=None, help="Override: incoming ball speed.")
+@click.option("--incoming-spin", default=None, help="Override: incoming topspin [rpm].")
+@_condition_options
+@click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
+@click.option(
+    "--csv", "csv_path", default=None, help="Write the trajectory table to this CSV file."
+)
+@click.option("--dt", default="0.005", show_default=True, help="Trajectory time step [s].")
+@click.option("--force", is_flag=True, help="Overwrite existing output files.")
+def shot(
+    stroke,
+    scenario,
+    head_speed,
+    swing_path,
+    face_tilt,
+    swing_direction,
+    contact,
+    incoming_speed,
+    incoming_spin,
+    ball,
+    racket,
+    air,
+    surface_name,
+    receiver_plane,
+    as_json,
+    csv_path,
+    dt,
+    force,
+):
+    """One stroke against the scenario's incoming ball (or a serve against its toss):
+    impact, net, landing, bounce and the ball at the receiver."""
+    from dataclasses import replace
+
+    from rallyarc import domain, export
+    from rallyarc.report import comparison_table
+    from rallyarc.shot import BallState, play
+
+    sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    st = domain.load_stroke(stroke)
+    changes = {}
+    if head_speed is not None:
+        changes["head_speed"] = units.speed(head_speed, "--head-speed", 1.0, 70.0)
+    for name, value, low, high in (
+        ("swing_path", swing_path, -60.0, 80.0),
+        ("face_tilt", face_tilt, -60.0, 60.0),
+        ("swing_direction", swing_direction, -60.0, 60.0),
+    ):
+        if value is not None:
+            opt = "--" + name.replace("_", "-")
+            changes[name] = math.radians(units.number(value, opt, low, high))
+    if "swing_direction" in changes:
+        changes["face_azimuth"] = st.face_azimuth - st.swing_direction + changes["swing_direction"]
+    st = replace(st, **changes)
+    step = units.number(dt, "--dt", 0.0005, 0.1)
+    if csv_path is not None:
+        export.check_targets([csv_path], force, "--csv")
+    incoming = None
+    if st.kind == "serve":
+        if contact is not None:
+            st = replace(st, toss=replace(st.toss, contact=units.point(contact, "--contact")))
+        if incoming_speed is not None or incoming_spin is not None:
+            raise InputError(
+                "--incoming-speed/--incoming-spin: a serve's incoming ball is its toss"
+            )
+    else:
+        if sc.incoming is None:
+            raise InputError(f"--scenario: {sc.where} has no [incoming] ball for a groundstroke")
+        spec = dict(sc.incoming)
+        if contact is not None:
+            spec["position_m"] = list(units.point(contact, "--contact", -20.0, 20.0))
+        if incoming_speed is not None:
+            spec["speed_kmh"] = units.speed(incoming_speed, "--incoming-speed", 0.0, 70.0) * 3.6
+        if incoming_spin is not None:
+            spec["spin_rpm"] = units.number(incoming_spin, "--incoming-spin", -6000.0, 6000.0)
+        incoming = BallState.of(*domain.incoming_state(spec))
+    if incoming is None and st.toss.contact[2] < sc.conditions.ball.radius:
+        raise InputError("--contact: the contact height Z must be above the ball's radius")
+    result = play([st], sc.conditions, incoming)
+    data = result.record(0)
+    if csv_path is not None:
+        export.write_frame(csv_path, result.trajectory_frame(step))
+    lines = comparison_table(
+        result,
+        title=f"{st.label} ({sc.conditions.surface_name}, "
+        f"{sc.conditions.ball.name}, {sc.conditions.air.name})",
+    )
+    if csv_path is not None:
+        lines.append(f"trajectory written to {csv_path}")
+    _emit(data, as_json, lines)
+
+
+@main.command()
+@click.argument("scenario", default="demo")
+@_condition_options
+@click.option(
+    "--out", "out_dir", default=None, help="Write the table, trajectories and figures here."
+)
+@click.option("--dt", default="0.005", show_default=True, help="Trajectory time step [s].")
+@click.option("--force", is_flag=True, help="Overwrite existing files in --out.")
+@click.option("--json", "as_json", is_flag=True, help="Print the shots as a JSON list.")
+def compare(scenario, ball, racket, air, surface_name, receiver_plane, out_dir, dt, force, as_json):
+    """Every stroke variant of a scenario side by side (default: the demo scenario)."""
+    from pathlib import Path
+
+    from rallyarc import domain, export
+    from rallyarc.report import comparison_table
+    from rallyarc.shot import BallState, play
+
+    sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    step = units.number(dt, "--dt", 0.0005, 0.1)
+    names = (
+        "shots.csv",
+        "shots.json",
+        "trajectories.csv",
+        "trajectories.parquet",
+        "side_view.png",
+        "top_view.png",
+        "scene.png",
+    )
+    if out_dir is not None:
+        folder = Path(out_dir)
+        if folder.exists() and not folder.is_dir():
+            raise InputError(f"--out: {folder} is a file, not a folder")
+        export.check_targets([folder / n for n in names], force)
+    incoming = BallState.of(*domain.incoming_state(sc.incoming)) if sc.incoming else None
+    result = play(sc.strokes, sc.conditions, incoming)
+    records = [result.record(i) for i in range(len(result))]
+    c = sc.conditions
+    title = (
+        f"{sc.name}: {sc.player}, {sc.club}\n{sc.description}\n"
+        f"ball {c.ball.name}, racket {c.racket.name}, air {c.air.name} "
+        f"({c.air.density:.3f} kg/m^3), surface {c.surface_name}"
+    )
+    lines = comparison_table(result, title=title)
+    if out_dir is not None:
+        written = _write_compare(result, records, folder, step)
+        lines.append("written: " + ", ".join(str(p) for p in written))
+    _emit(
+        {"scenario": sc.name, "player": sc.player, "club": sc.club, "shots": records},
+        as_json,
+        lines,
+    )
+
+
+def _write_compare(result, records, folder, step):
+    from rallyarc import export
+
+    written = [
+        export.write_frame(folder / "shots.csv", result.to_frame()),
+        export.write_json(folder / "shots.json", records),
+    ]
+    table = result.trajectory_frame(step)
+    written.append(export.write_frame(folder / "trajectories.csv", table))
+    written.append(export.write_frame(folder / "trajectories.parquet", table))
+    try:
+        from viz import plots, scene
+    except ImportError:  # the figures need the viz package
+        return written
+    written.append(plots.save_figure(plots.side_view(result), folder / "side_view.png"))
+    written.append(plots.save_figure(plots.top_view(result), folder / "top_view.png"))
+    written.append(scene.render_scene(result, png_path=folder / "scene.png"))
+    return written
+
+
+_PRESET_FIGURES = {
+    "balls": lambda d: (
+        f"{d['mass_kg'] * 1000:.1f} g, {d['diameter_m'] * 100:.2f} cm, "
+        f"alpha {d['alpha']:.2f}, rebound {d['rebound_cm']:.0f} cm, e {d['restitution']:.3f}"
+    ),
+    "surfaces": lambda d: (
+        f"mu {d['friction']:.2f}, e {d['restitution']:.2f}, "
+        f"pace category {d.get('pace_category', '-')}"
+    ),
+    "rackets": lambda d: (
+        f"{d['mass_kg'] * 1000:.0f} g, balance {d['balance_m'] * 100:.1f} cm, "
+        f"swingweight {d['swingweight_kgm2'] * 1e4:.0f} kg cm^2, "
+        f"strings e {d['string_restitution']:.2f} mu {d['string_friction']:.2f}"
+    ),
+    "air": lambda d: (
+        f"{d['altitude_m']:.0f} m, {d['temperature_c']:.0f} C, "
+        f"humidity {d['relative_humidity'] * 100:.0f} %"
+    ),
+    "strokes": lambda d: (
+        f"{d['kind']}, {d['head_speed_kmh']:.0f} km/h, path "
+        f"{d['swing_path_deg']:+.0f} deg, face {d['face_tilt_deg']:+.1f} deg"
+    ),
+    "scenarios": lambda d: f"{d['player']} at {d['club']}: " + ", ".join(d["strokes"]),
+}
+
+
+@main.command()
+@click.argument("kind", required=False)
+@click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
+def presets(kind, as_json):
+    """The built-in presets of each KIND (balls, surfaces, rackets, air, strokes, scenarios)
+    with their key figures and sources."""
+    kinds = list(_PRESET_FIGURES)
+    if kind is not None and kind not in kinds:
+        raise InputError(f"KIND: unknown preset kind {kind!r}; choose one of " + ", ".join(kinds))
+    data, lines = {}, []
+    for k in [kind] if kind else kinds:
+        data[k] = {}
+        lines.append(f"{k}:")
+        for name in config.preset_names(k):
+            item = config.load(k, name)
+            item.pop("where", None)
+            data[k][name] = item
+            lines.append(f"  {name:15s} {item['name']}: {_PRESET_FIGURES[k](item)}")
+            lines.append(f"  {'':15s} source: {item['source']}")
+    _emit(data, as_json, lines)
+
+
 if __name__ == "__main__":
     main()

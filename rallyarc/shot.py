@@ -279,6 +279,41 @@ class ShotResult:
         }
 
 
+def judge_landing(land_x, land_y, contact_y, serve, singles=True):
+    """Margins and the line call of landings of balls hit from the near end toward +x.
+
+    A ball is in when its touch point (below its centre) lies on or inside the lines, whose
+    outer edges bound the court (ITF Rules of Tennis, Rule 1). A serve must land in the
+    service box diagonally opposite: the deuce box (y >= 0) from a contact at y < 0, the ad box
+    otherwise. Returns ``land_depth_m``, ``land_side_margin_m``, ``land_service_box``,
+    ``land_box_depth_m``, ``land_box_side_margin_m`` and ``land_call`` (in, long, wide or out
+    for long and wide), each ``(N,)``.
+    """
+    land_x, land_y = np.asarray(land_x, float), np.asarray(land_y, float)
+    serve = np.broadcast_to(np.asarray(serve, bool), land_x.shape)
+    half_width = (court.SINGLES_WIDTH if singles else court.DOUBLES_WIDTH) / 2.0
+    depth = court.HALF_LENGTH - land_x
+    side = half_width - np.abs(land_y)
+    box_y = np.where(np.asarray(contact_y) < 0, 1.0, -1.0)  # the target box's side of y
+    box_depth = court.SERVICE_LINE - land_x
+    box_side = np.minimum(court.SINGLES_WIDTH / 2.0 - box_y * land_y, box_y * land_y)
+    depth_ok = np.where(serve, box_depth >= 0, depth >= 0)
+    side_ok = np.where(serve, box_side >= 0, side >= 0)
+    call = np.select(
+        [depth_ok & side_ok, ~depth_ok & side_ok, depth_ok & ~side_ok],
+        ["in", "long", "wide"],
+        "out",
+    )
+    return {
+        "land_depth_m": depth,
+        "land_side_margin_m": side,
+        "land_service_box": np.where(serve, np.where(box_y > 0, "deuce", "ad"), ""),
+        "land_box_depth_m": np.where(serve, box_depth, np.nan),
+        "land_box_side_margin_m": np.where(serve, box_side, np.nan),
+        "land_call": call,
+    }
+
+
 def simulate(incoming, swing, conditions, labels=None, serve=None, record=True, rtol=1e-6):
     """Play N shots through the whole chain in one vectorized call.
 
@@ -431,24 +466,11 @@ def launch(
     m["land_x_m"] = np.where(landed, land[:, 0], np.nan)
     m["land_y_m"] = np.where(landed, land[:, 1], np.nan)
     m["land_t_s"] = np.where(landed, first.t, np.nan)
-    half_width = (court.SINGLES_WIDTH if conditions.singles else court.DOUBLES_WIDTH) / 2.0
-    m["land_depth_m"] = court.HALF_LENGTH - m["land_x_m"]
-    m["land_side_margin_m"] = half_width - np.abs(m["land_y_m"])
-    box_y = np.where(incoming.position[:, 1] < 0, 1.0, -1.0)  # sign of the target box's y
-    m["land_service_box"] = np.where(serve, np.where(box_y > 0, "deuce", "ad"), "")
-    box_depth = court.SERVICE_LINE - m["land_x_m"]
-    box_side = np.minimum(court.SINGLES_WIDTH / 2.0 - box_y * m["land_y_m"], box_y * m["land_y_m"])
-    m["land_box_depth_m"] = np.where(serve, box_depth, np.nan)
-    m["land_box_side_margin_m"] = np.where(serve, box_side, np.nan)
-
-    depth_ok = np.where(serve, box_depth >= 0, m["land_depth_m"] >= 0)
-    side_ok = np.where(serve, box_side >= 0, m["land_side_margin_m"] >= 0)
+    m.update(
+        judge_landing(m["land_x_m"], m["land_y_m"], start.position[:, 1], serve, conditions.singles)
+    )
     past_net = landed & over & (land[:, 0] > 0)
-    outcome = np.full(n, "net", dtype="<U4")
-    outcome[past_net & depth_ok & side_ok] = "in"
-    outcome[past_net & ~depth_ok & side_ok] = "long"
-    outcome[past_net & depth_ok & ~side_ok] = "wide"
-    outcome[past_net & ~depth_ok & ~side_ok] = "out"
+    outcome = np.where(past_net, m.pop("land_call"), "net").astype("<U4")
     outcome[~approaching] = "miss"
     m["outcome"] = outcome
     vin = first.velocity

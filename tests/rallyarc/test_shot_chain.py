@@ -1,0 +1,308 @@
+"""The whole shot against independent references, physical sanity, presets and the batch API."""
+
+import math
+
+import numpy as np
+import pytest
+from scipy.integrate import solve_ivp
+from scipy.optimize import brentq
+
+from bounce.pace import rate_surface
+from flight.forces import acceleration
+from rallyarc import config, court, domain
+from rallyarc.shot import BallState, judge_landing, launch, play
+from rallyarc.units import KMH, RPM
+
+
+def demo():
+    sc = domain.load_scenario("demo")
+    return sc, BallState.of(*domain.incoming_state(sc.incoming))
+
+
+def _ivp(x, v, w, params, events, t_span=(0.0, 10.0)):
+    """scipy solve_ivp DOP853 at rtol 1e-10: the reference integrator (spin constant, as the
+    presets have no spin decay)."""
+
+    def rhs(t, y):
+        return np.concatenate([y[3:], acceleration(y[3:][None], w[None], params)[0]])
+
+    return solve_ivp(
+        rhs, t_span, np.concatenate([x, v]), method="DOP853", rtol=1e-10, atol=1e-12, events=events
+    )
+
+
+def _published_bounce(v, w, r, alpha, mu, e):
+    """Slide-or-grip bounce in the x-z plane (Brody 1984; Cross 2002; see REFERENCES.md):
+    J_n = (1 + e)|v_z|, J_grip = alpha |u| / (1 + alpha) with u = v_x - r w_y."""
+    vx, vz, wy = v[0], v[2], w[1]
+    u = vx - r * wy
+    jn = (1 + e) * abs(vz)
+    jgrip = alpha * abs(u) / (1 + alpha)
+    j = min(mu * jn, jgrip)
+    vx2 = vx - math.copysign(j, u)
+    wy2 = wy + math.copysign(j, u) / (alpha * r)
+    return np.array([vx2, 0.0, e * abs(vz)]), np.array([0.0, wy2, 0.0])
+
+
+def test_whole_shot_matches_solve_ivp_and_published_bounce():
+    # References: scipy solve_ivp DOP853 rtol 1e-10 for both flights, the slide-or-grip
+    # formulas of Brody (1984) / Cross (2002) for the bounce. Tolerance 1 mm, 0.1 ms.
+    sc, incoming = demo()
+    cond = sc.conditions
+    res = play(sc.strokes, cond, incoming)
+    params = cond.flight_params()
+    r, alpha = cond.ball.radius, cond.ball.alpha
+    surface = cond.surface_for_ball()
+    plane = court.HALF_LENGTH + cond.receiver_plane_m
+    m = res.metrics
+    for i in range(len(res)):
+        x0 = incoming.position[0]
+        # the launch state comes from the impact stage (checked in tests/impact)
+        v0 = np.array(
+            [
+                m["impact_speed_mps"][i] * math.cos(math.radians(m["impact_launch_deg"][i])),
+                0.0,
+                m["impact_speed_mps"][i] * math.sin(math.radians(m["impact_launch_deg"][i])),
+            ]
+        )
+        w0 = np.array([0.0, m["impact_topspin_rpm"][i] * RPM, 0.0])
+
+        def ground(t, y):
+            return y[2] - r
+
+        ground.terminal, ground.direction = True, -1
+
+        def net(t, y):
+            return y[0]
+
+        first = _ivp(x0, v0, w0, params, [ground, net])
+        land = first.y_events[0][0]
+        net_z = first.y_events[1][0][2]
+        assert m["net_height_m"][i] == pytest.approx(net_z, abs=1e-3)
+        assert m["land_x_m"][i] == pytest.approx(land[0], abs=1e-3)
+        assert m["land_t_s"][i] == pytest.approx(first.t_events[0][0], abs=1e-4)
+        vb, wb = _published_bounce(land[3:], w0, r, alpha, surface.friction, surface.restitution)
+        assert m["bounce_speed_out_mps"][i] == pytest.approx(np.linalg.norm(vb), abs=1e-3)
+        assert m["bounce_spin_out_rpm"][i] * RPM == pytest.approx(wb[1], abs=0.05)
+
+        def top(t, y):
+            return y[5]
+
+        top.direction = -1
+
+        def receiver(t, y):
+            return y[0] - plane
+
+        receiver.direction = 1
+        t_b = first.t_events[0][0]
+        second = _ivp(land[:3], vb, wb, params, [ground, top, receiver], (t_b, t_b + 10))
+        assert m["bounce_apex_m"][i] == pytest.approx(second.y_events[1][0][2], abs=1e-3)
+        if second.t_events[2].size:
+            assert m["receiver_height_m"][i] == pytest.approx(second.y_events[2][0][2], abs=1e-3)
+            assert m["receiver_t_s"][i] == pytest.approx(second.t_events[2][0], abs=1e-4)
+        else:
+            assert np.isnan(m["receiver_height_m"][i])  # bounced twice first (the drop shot)
+            assert m["bounce_second_x_m"][i] == pytest.approx(second.y_events[0][0][0], abs=1e-3)
+
+
+def _launch_from_baseline(speed_kmh, angle_deg, topspin_rpm, cond):
+    """Balls launched toward +x from 1 m above the near baseline."""
+    n = np.size(topspin_rpm)
+    a = math.radians(angle_deg)
+    v = speed_kmh * KMH * np.array([math.cos(a), 0.0, math.sin(a)])
+    w = np.zeros((n, 3))
+    w[:, 1] = np.atleast_1d(topspin_rpm) * RPM
+    return launch(BallState.of([-court.HALF_LENGTH, 0.0, 1.0], v, w, n), cond)
+
+
+def test_flat_drive_at_125_kmh_with_half_a_metre_over_the_net_lands_in():
+    # Common practice: a flat drive at 120-130 km/h from the baseline that clears the net by
+    # about half a metre lands in. The launch angle is solved for 0.5 m of clearance.
+    cond = demo()[0].conditions
+    for speed in (120.0, 125.0, 130.0):
+
+        def clearance(angle, speed=speed):
+            return _launch_from_baseline(speed, angle, 300.0, cond).metrics["net_clearance_m"][0]
+
+        angle = brentq(lambda a: clearance(a) - 0.5, 1.0, 10.0)
+        res = _launch_from_baseline(speed, angle, 300.0, cond)
+        assert res.outcome[0] == "in", (speed, res.metrics["land_x_m"][0])
+
+
+def test_more_topspin_at_the_same_launch_lands_shorter_and_bounces_higher():
+    # Magnus lift along w x v points down for topspin, so at the same launch speed and angle
+    # the ball dips sooner (lands shorter) and arrives steeper; a steeper arrival keeps more
+    # vertical speed through the bounce, so the ball leaves the court faster upward (common
+    # practice). The apex height itself is not monotonic at one launch: after the bounce the
+    # gripping ball keeps a forward spin whose Magnus force pushes it down, and the shorter
+    # ball has lost less speed; so the apex is compared at equal depth below.
+    cond = demo()[0].conditions
+    res = _launch_from_baseline(110.0, 9.0, [0.0, 1500.0, 3000.0], cond)
+    m = res.metrics
+    up = m["bounce_speed_out_mps"] * np.sin(np.radians(m["bounce_angle_out_deg"]))
+    assert np.all(np.diff(m["land_x_m"]) < -0.5)
+    assert np.all(np.diff(m["bounce_angle_in_deg"]) > 0)
+    assert np.all(np.diff(up) > 0)
+
+
+def test_more_topspin_to_the_same_depth_bounces_higher():
+    # Common practice: to land at the same depth a topspin ball is launched higher, clears
+    # the net by more, arrives steeper and kicks higher.
+    cond = demo()[0].conditions
+    apex, clearance = [], []
+    for spin in (0.0, 1500.0, 3000.0):
+
+        def land(angle, spin=spin):
+            return _launch_from_baseline(110.0, angle, spin, cond).metrics["land_x_m"][0] - 9.5
+
+        angle = brentq(land, 0.0, 30.0)
+        m = _launch_from_baseline(110.0, angle, spin, cond).metrics
+        apex.append(m["bounce_apex_m"][0])
+        clearance.append(m["net_clearance_m"][0])
+    assert np.all(np.diff(apex) > 0.1)
+    assert np.all(np.diff(clearance) > 0.2)
+
+
+def test_kick_serve_bounces_higher_than_flat_serve():
+    # Common practice: the kick serve's topspin makes it dip steeply into the box and kick up;
+    # the flat serve arrives flatter and stays lower.
+    sc = domain.load_scenario("serve_demo")
+    res = play(sc.strokes, sc.conditions)
+    by = dict(zip(res.labels, range(len(res)), strict=True))
+    m = res.metrics
+    assert set(res.outcome) == {"in"}
+    assert m["bounce_apex_m"][by["kick_serve"]] > m["bounce_apex_m"][by["flat_serve"]] + 0.15
+    assert m["bounce_angle_in_deg"][by["kick_serve"]] > m["bounce_angle_in_deg"][by["flat_serve"]]
+    assert m["impact_sidespin_rpm"][by["slice_serve"]] > 1000  # curves to the server's left
+
+
+def test_slice_stays_lower_after_the_bounce_than_topspin():
+    # Common practice: backspin makes the ball skid and stay low; topspin kicks it up.
+    sc, incoming = demo()
+    res = play(sc.strokes, sc.conditions, incoming)
+    by = dict(zip(res.labels, range(len(res)), strict=True))
+    m = res.metrics
+    assert m["impact_topspin_rpm"][by["slice"]] < 0 < m["impact_topspin_rpm"][by["topspin_drive"]]
+    for key in ("bounce_apex_m", "receiver_height_m"):
+        assert m[key][by["slice"]] < m[key][by["topspin_drive"]]
+
+
+def test_altitude_carries_the_same_shot_deeper():
+    # Thinner air (ISA: about 16 % less dense at 1600 m) means less drag and lift: the same
+    # launch flies further (common practice at altitude venues).
+    sc, _ = demo()
+    from dataclasses import replace
+
+    low = _launch_from_baseline(110.0, 8.0, 1500.0, sc.conditions)
+    high = _launch_from_baseline(
+        110.0, 8.0, 1500.0, replace(sc.conditions, air=domain.load_air("altitude"))
+    )
+    assert domain.load_air("altitude").density < 0.88 * sc.conditions.air.density
+    assert high.metrics["land_x_m"][0] > low.metrics["land_x_m"][0] + 0.3
+
+
+def test_demo_scenario_variants_all_land_in():
+    sc, incoming = demo()
+    res = play(sc.strokes, sc.conditions, incoming)
+    assert list(res.outcome) == ["in"] * len(sc.strokes)
+    flat = list(res.labels).index("flat_drive")
+    assert 120 <= res.metrics["impact_speed_mps"][flat] * 3.6 <= 130
+    assert 0.3 <= res.metrics["net_clearance_m"][flat] <= 0.7
+
+
+@pytest.mark.parametrize("name", config.preset_names("balls"))
+def test_ball_restitution_reproduces_its_drop_test_with_drag(name):
+    # ITF Rules of Tennis, Appendix I (and the ITF stage-ball specifications): rebound band
+    # from 254 cm onto a rigid surface. The drop is simulated with air drag; without air the
+    # same rebound needs only e = sqrt(h/H) (REFERENCES.md), so e must exceed that.
+    ball = domain.load_ball(name)
+    low, high = ball.rebound_band_cm
+    rebound = domain.drop_test_rebound(ball)[0] * 100
+    assert low <= rebound <= high
+    assert rebound == pytest.approx(ball.rebound_cm, abs=0.5)
+    assert ball.restitution > math.sqrt(ball.rebound_cm / 254.0)
+
+
+@pytest.mark.parametrize("name", config.preset_names("surfaces"))
+def test_surface_preset_rating_lands_in_its_category(name):
+    # ITF CS 01/02 categories, simulated test impact (bounce.pace).
+    data = config.load("surfaces", name)
+    assert rate_surface(domain.load_surface(name)).category == data["pace_category"]
+
+
+@pytest.mark.parametrize("kind", ["balls", "surfaces", "rackets", "air", "strokes", "scenarios"])
+def test_every_preset_loads_and_names_a_source(kind):
+    names = config.preset_names(kind)
+    assert names
+    for name in names:
+        data = config.load(kind, name)
+        assert data["source"].strip()
+
+
+def test_air_presets_follow_the_isa():
+    # ISA (ISO 2533): 1.225 kg/m^3 at sea level for dry air at 15 C; humid and hot air is
+    # lighter. 1600 m ISA pressure 83,528 Pa (from the ISA formula, flight/air.py tests).
+    sea, hot, alt = (domain.load_air(n) for n in ("sea_level", "hot_day", "altitude"))
+    assert sea.density == pytest.approx(1.225, abs=0.006)
+    assert hot.density < sea.density
+    assert alt.density == pytest.approx(0.99, abs=0.01)
+
+
+def test_batch_equals_separate_runs_and_converts_to_frames():
+    sc, incoming = demo()
+    together = play(sc.strokes, sc.conditions, incoming)
+    frame = together.to_frame()
+    assert list(frame["label"]) == [s.name for s in sc.strokes]
+    for i, stroke in enumerate(sc.strokes):
+        alone = play([stroke], sc.conditions, incoming)
+        for key in ("land_x_m", "bounce_apex_m", "net_clearance_m"):
+            assert alone.metrics[key][0] == pytest.approx(together.metrics[key][i], abs=1e-9)
+    table = together.trajectory_frame(0.005)
+    assert {"t_s", "x_m", "y_m", "z_m", "spin_rpm", "phase"} <= set(table.columns)
+    first = table[table["shot"] == 0]
+    assert first["t_s"].iloc[0] == 0.0
+    assert np.allclose(np.diff(first["t_s"]), 0.005)
+    assert first["z_m"].min() >= sc.conditions.ball.radius - 1e-6  # never below the court
+    assert set(first["phase"]) == {"before_bounce", "after_bounce"}
+
+
+def test_sweep_over_head_speed_runs_in_one_call():
+    sc, incoming = demo()
+    stroke = domain.load_stroke("topspin_drive")
+    speeds = np.linspace(60, 100, 9) * KMH
+    res = play([stroke], sc.conditions, incoming, head_speed=speeds)
+    assert len(res) == 9
+    assert np.all(np.diff(res.metrics["impact_speed_mps"]) > 0)
+
+
+def test_ball_into_the_net_is_a_net_outcome_and_stops_there():
+    sc, incoming = demo()
+    res = _launch_from_baseline(100.0, 2.0, 0.0, sc.conditions)
+    assert res.outcome[0] == "net"
+    assert res.metrics["net_clearance_m"][0] < 0
+    assert not res.metrics["bounce_occurred"][0]
+    _, pos, _ = res.path(0)
+    assert pos[:, 0].max() <= 1e-6  # the path ends at the net
+
+
+def test_long_and_wide_outcomes():
+    sc, _ = demo()
+    cond = sc.conditions
+    long_ball = _launch_from_baseline(140.0, 10.0, 0.0, cond)
+    assert long_ball.outcome[0] == "long" and long_ball.metrics["land_depth_m"][0] < 0
+    v = 110 * KMH * np.array([math.cos(0.3), math.sin(0.3), 0.0]) + [0, 0, 4.0]
+    wide = launch(BallState.of([-court.HALF_LENGTH, 0.0, 1.0], v, [0, 0, 0]), cond)
+    assert wide.outcome[0] == "wide" and wide.metrics["land_side_margin_m"][0] < 0
+
+
+def test_ball_touching_the_line_is_in():
+    # ITF Rules of Tennis, Rule 1: the lines belong to the court and their outer edges are its
+    # boundary (baseline at 11.885 m, singles sideline at 4.115 m, service line at 6.40 m).
+    x = [11.885, 11.886, 5.0, 5.0, 11.0, 6.40, 6.41, 3.0, 3.0]
+    y = [0.0, 0.0, 4.115, 4.116, -4.2, 2.0, 2.0, -0.01, 4.116]
+    serve = [False] * 5 + [True] * 4
+    call = judge_landing(x, y, -0.3, serve)["land_call"]
+    assert list(call) == ["in", "long", "in", "wide", "wide", "in", "long", "wide", "wide"]
+    assert judge_landing([12.0], [4.2], 0.0, False)["land_call"][0] == "out"
+    ad = judge_landing([3.0], [-2.0], 0.5, True)  # from the ad side, into the ad box
+    assert ad["land_call"][0] == "in" and ad["land_service_box"][0] == "ad"
