@@ -565,5 +565,317 @@ def presets(kind, as_json):
     _emit(data, as_json, lines)
 
 
+# ----------------------------------------------------------------------------- aiming, drills
+
+
+def _target(text, option="--target"):
+    parts = str(text).split(",")
+    if len(parts) != 2:
+        raise InputError(f"{option}: expected a landing point X,Y in metres, got {text!r}")
+    return tuple(units.number(p.strip(), option, -15.0, 15.0) for p in parts)
+
+
+def _aim_outputs(aim, csv_path, dt):
+    from rallyarc import export
+
+    if csv_path is not None:
+        export.write_frame(csv_path, aim.trajectory_frame(dt))
+
+
+@main.group(cls=click.Group)
+def aim():
+    """Solve the swing (aim stroke) or the ball-machine setting (aim feed) for a target."""
+
+
+@aim.command("stroke")
+@click.option("--stroke", default="topspin_drive", show_default=True, help="Stroke style preset.")
+@click.option("--scenario", default="demo", show_default=True, help=_SCENARIO_HELP)
+@click.option("--target", required=True, help="Landing point X,Y [m], court frame.")
+@click.option(
+    "--solve",
+    "free",
+    type=click.Choice(["tilt", "speed"]),
+    default="tilt",
+    show_default=True,
+    help="Free swing values: face tilt and direction, or head speed and direction.",
+)
+@click.option("--clearance", default=None, help="Also clear the net by this much [m].")
+@click.option(
+    "--receiver-height", default=None, help="Also reach the receiver's plane at this height [m]."
+)
+@_condition_options
+@click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
+@click.option("--csv", "csv_path", default=None, help="Write the trajectory (.csv or .parquet).")
+@click.option("--dt", default="0.005", show_default=True, help="Trajectory time step [s].")
+@click.option("--force", is_flag=True, help="Overwrite an existing output file.")
+def aim_stroke_cmd(
+    stroke,
+    scenario,
+    target,
+    free,
+    clearance,
+    receiver_height,
+    ball,
+    racket,
+    air,
+    surface_name,
+    receiver_plane,
+    as_json,
+    csv_path,
+    dt,
+    force,
+):
+    """The swing of a stroke style that lands the ball on --target."""
+    from rallyarc import domain, export
+    from rallyarc.aim import aim_stroke
+    from rallyarc.shot import BallState
+
+    sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    st = domain.load_stroke(stroke)
+    tx, ty = _target(target)
+    if clearance is not None and receiver_height is not None:
+        raise InputError("--clearance/--receiver-height: give one of them, not both")
+    clr = units.number(clearance, "--clearance", 0.0, 10.0) if clearance is not None else None
+    rh = (
+        units.number(receiver_height, "--receiver-height", 0.05, 5.0)
+        if receiver_height is not None
+        else None
+    )
+    step = units.number(dt, "--dt", 0.0005, 0.1)
+    if csv_path is not None:
+        export.check_targets([csv_path], force, "--csv")
+    if st.kind == "serve":
+        incoming = None
+    else:
+        if sc.incoming is None:
+            raise InputError(f"--scenario: {sc.where} has no [incoming] ball for a groundstroke")
+        incoming = BallState.of(*domain.incoming_state(sc.incoming))
+    res = aim_stroke(
+        incoming, st, sc.conditions, tx, ty, free=free, clearance=clr, receiver_height=rh
+    )
+    _aim_outputs(res, csv_path, step)
+    record = res.result.record(0)
+    s = res.settings
+    swing = {
+        "head_speed_kmh": float(res.result.swing.head_speed[0] * 3.6),
+        "face_tilt_deg": math.degrees(res.result.swing.face_tilt[0]),
+        "swing_direction_deg": math.degrees(res.result.swing.swing_direction[0]),
+        "face_azimuth_deg": math.degrees(res.result.swing.face_azimuth[0]),
+        "swing_path_deg": math.degrees(res.result.swing.swing_path[0]),
+    }
+    data = {
+        "target_m": [tx, ty],
+        "reachable": bool(res.reachable[0]),
+        "reason": str(res.reason[0]),
+        "solved": sorted(s),
+        "swing": swing,
+        "miss_m": float(res.miss_distance()[0]),
+        "shot": record,
+    }
+    m = res.result.metrics
+    head = "solved" if data["reachable"] else "NOT REACHABLE: " + data["reason"]
+    lines = [
+        f"{st.label} to x {tx:+.2f}, y {ty:+.2f}: {head}",
+        f"swing:   head speed {swing['head_speed_kmh']:.1f} km/h, path "
+        f"{swing['swing_path_deg']:+.1f} deg, face tilt {swing['face_tilt_deg']:+.2f} deg, "
+        f"direction {swing['swing_direction_deg']:+.2f} deg",
+        f"ball:    {m['impact_speed_mps'][0] * 3.6:.0f} km/h at {m['impact_launch_deg'][0]:+.1f}"
+        f" deg, {m['impact_topspin_rpm'][0]:+.0f} rpm topspin",
+        f"lands:   x {m['land_x_m'][0]:+.2f}, y {m['land_y_m'][0]:+.2f} "
+        f"({data['miss_m'] * 100:.1f} cm from the target), {m['outcome'][0]}",
+        f"net:     clearance {m['net_clearance_m'][0]:+.2f} m; receiver height "
+        f"{m['receiver_height_m'][0]:.2f} m",
+    ]
+    if csv_path is not None:
+        lines.append(f"trajectory written to {csv_path}")
+    _emit(data, as_json, lines)
+
+
+@aim.command("feed")
+@click.option("--machine", default="club_feeder", show_default=True, help="Machine preset.")
+@click.option(
+    "--at",
+    "position",
+    default="11,0",
+    show_default=True,
+    help="Machine position X,Y on the court [m].",
+)
+@click.option("--target", required=True, help="Landing point X,Y [m], court frame.")
+@click.option("--spin", default="0", show_default=True, help="Topspin setting [rpm], - backspin.")
+@click.option("--speed", default=None, help="Feed speed (km/h, mph, m/s); else give --height.")
+@click.option("--height", default=None, help="Ball height at the player's contact plane [m].")
+@click.option("--scenario", default="demo", show_default=True, help=_SCENARIO_HELP)
+@_condition_options
+@click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
+@click.option("--csv", "csv_path", default=None, help="Write the trajectory (.csv or .parquet).")
+@click.option("--dt", default="0.005", show_default=True, help="Trajectory time step [s].")
+@click.option("--force", is_flag=True, help="Overwrite an existing output file.")
+def aim_feed_cmd(
+    machine,
+    position,
+    target,
+    spin,
+    speed,
+    height,
+    scenario,
+    ball,
+    racket,
+    air,
+    surface_name,
+    receiver_plane,
+    as_json,
+    csv_path,
+    dt,
+    force,
+):
+    """The machine speed, elevation and aim that land a fed ball on --target.
+
+    Ball machines can injure: nobody in the machine's line of fire, start at low feed speeds,
+    and follow the venue's rules and qualified coaching practice.
+    """
+    from rallyarc import export
+    from rallyarc.aim import aim_feed, load_machine
+
+    sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    mach = load_machine(machine)
+    mx, my = _target(position, "--at")
+    if abs(mx) < 1.0:
+        raise InputError("--at: the machine must stand at least 1 m from the net (|X| >= 1)")
+    tx, ty = _target(target)
+    if tx * mx >= 0:
+        raise InputError("--target: must lie on the other side of the net from the machine")
+    if (speed is None) == (height is None):
+        raise InputError("--speed/--height: give exactly one of them")
+    w = units.number(spin, "--spin", -8000.0, 8000.0)
+    step = units.number(dt, "--dt", 0.0005, 0.1)
+    if csv_path is not None:
+        export.check_targets([csv_path], force, "--csv")
+    kwargs = (
+        {"speed": units.speed(speed, "--speed", 1.0, 80.0)}
+        if speed is not None
+        else {"player_height": units.number(height, "--height", 0.1, 4.0)}
+    )
+    res = aim_feed(mach, (mx, my), sc.conditions, tx, ty, w, **kwargs)
+    _aim_outputs(res, csv_path, step)
+    s, m = res.settings, res.result.metrics
+    land = res.landing()[0]
+    aim_left = math.degrees(s["azimuth"][0] - (math.pi if res.mirrored else 0.0))
+    aim_left = (aim_left + 180.0) % 360.0 - 180.0
+    data = {
+        "machine": machine,
+        "position_m": [mx, my],
+        "target_m": [tx, ty],
+        "reachable": bool(res.reachable[0]),
+        "reason": str(res.reason[0]),
+        "speed_kmh": float(s["speed"][0] * 3.6),
+        "speed_mph": float(s["speed"][0] / units.MPH),
+        "elevation_deg": math.degrees(s["elevation"][0]),
+        "aim_left_deg": aim_left,
+        "spin_rpm": float(s["topspin"][0] / units.RPM),
+        "landing_m": [float(land[0]), float(land[1])],
+        "miss_m": float(res.miss_distance()[0]),
+        "net_clearance_m": float(m["net_clearance_m"][0]),
+        "bounce_apex_m": float(m["bounce_apex_m"][0]),
+        "height_at_player_m": float(m["receiver_height_m"][0]),
+        "time_to_player_s": float(m["receiver_t_s"][0]),
+    }
+    data = {
+        k: (None if isinstance(v, float) and not math.isfinite(v) else v) for k, v in data.items()
+    }
+    head = "solved" if data["reachable"] else "NOT REACHABLE: " + data["reason"]
+    lines = [
+        f"feed to x {tx:+.2f}, y {ty:+.2f} from {machine} at x {mx:+.1f}, y {my:+.1f}: {head}",
+        f"set:     speed {data['speed_kmh']:.1f} km/h ({data['speed_mph']:.1f} mph), elevation "
+        f"{data['elevation_deg']:.1f} deg, aim {aim_left:+.1f} deg (+ left), spin "
+        f"{data['spin_rpm']:+.0f} rpm",
+        f"lands:   x {land[0]:+.2f}, y {land[1]:+.2f} ({data['miss_m'] * 100:.1f} cm from target)",
+        "Safety: nobody in the machine's line of fire; start with slow feeds; follow the venue's "
+        "rules and qualified coaching practice.",
+    ]
+    _emit(data, as_json, lines)
+
+
+@main.command()
+@click.argument("drill_file", default="demo_drill")
+@click.option("--out", "out_dir", default=None, help="Write the drill sheet and trajectories here.")
+@click.option(
+    "--units",
+    "speed_units",
+    type=click.Choice(["kmh", "mph"]),
+    default="kmh",
+    show_default=True,
+    help="Speed units on the sheet.",
+)
+@click.option("--dt", default="0.005", show_default=True, help="Trajectory time step [s].")
+@click.option("--force", is_flag=True, help="Overwrite existing files in --out.")
+@click.option("--json", "as_json", is_flag=True, help="Print the sheet as JSON.")
+def drill(drill_file, out_dir, speed_units, dt, force, as_json):
+    """Solve every ball of a drill file and print (or write) its drill sheet."""
+    from pathlib import Path
+
+    from rallyarc import export
+    from rallyarc.drill import SAFETY, load_drill, sheet_lines, solve_drill
+
+    d = load_drill(drill_file)
+    step = units.number(dt, "--dt", 0.0005, 0.1)
+    names = (
+        "drill_sheet.csv",
+        "drill_sheet.json",
+        "drill_sheet.parquet",
+        "drill_sheet.png",
+        "drill_sheet.pdf",
+        "trajectories.csv",
+        "trajectories.parquet",
+    )
+    if out_dir is not None:
+        folder = Path(out_dir)
+        if folder.exists() and not folder.is_dir():
+            raise InputError(f"--out: {folder} is a file, not a folder")
+        export.check_targets([folder / n for n in names], force)
+    sheet, results = solve_drill(d)
+    lines = sheet_lines(d, sheet, speed_units)
+    records = sheet.astype(object).where(sheet.notna(), None).to_dict(orient="records")
+    data = {"drill": d.name, "coach": d.coach, "club": d.club, "safety": SAFETY, "balls": records}
+    if out_dir is not None:
+        written = _write_drill(d, sheet, results, data, folder, step, speed_units)
+        lines.append("written: " + ", ".join(str(p) for p in written))
+    _emit(data, as_json, lines)
+
+
+def _write_drill(d, sheet, results, data, folder, step, speed_units):
+    import pandas as pd
+
+    from rallyarc import export
+    from rallyarc.drill import SAFETY
+    from viz.drill_sheet import drill_sheet
+
+    frames, paths = [], {}
+    for idx, aim_result in results:
+        frame = aim_result.trajectory_frame(step)
+        frame["ball"] = np.asarray(idx)[frame["shot"].to_numpy()] + 1
+        frames.append(frame.drop(columns=["shot", "label"]))
+        for i in idx:
+            part = frame[frame["ball"] == i + 1]
+            paths[i + 1] = part[["x_m", "y_m"]].to_numpy()
+    table = pd.concat(frames).sort_values(["ball", "t_s"], kind="stable")
+    table = table[["ball"] + [c for c in table.columns if c != "ball"]].reset_index(drop=True)
+    fig = drill_sheet(d, sheet, paths, SAFETY, speed_units)
+    written = [
+        export.write_frame(folder / "drill_sheet.csv", sheet),
+        export.write_json(folder / "drill_sheet.json", data),
+        export.write_frame(folder / "drill_sheet.parquet", sheet),
+        export.atomic_write(
+            folder / "drill_sheet.png", lambda tmp: fig.savefig(tmp, format="png", dpi=110)
+        ),
+        export.atomic_write(folder / "drill_sheet.pdf", lambda tmp: fig.savefig(tmp, format="pdf")),
+        export.write_frame(folder / "trajectories.csv", table),
+        export.write_frame(folder / "trajectories.parquet", table),
+    ]
+    import matplotlib.pyplot as plt
+
+    plt.close(fig)
+    return written
+
+
 if __name__ == "__main__":
     main()

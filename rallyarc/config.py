@@ -30,6 +30,7 @@ class Key:
     required: bool = True
     choices: tuple = ()
     table: dict | None = None
+    length: int = 3
 
     def describe(self):
         if self.choices:
@@ -39,11 +40,13 @@ class Key:
         if self.kind is bool:
             return "true or false"
         if self.kind == "vector":
-            return f"a list of 3 numbers, each from {self.low:g} to {self.high:g}"
+            return f"a list of {self.length} numbers, each from {self.low:g} to {self.high:g}"
         if self.kind == "names":
             return "a non-empty list of names"
         if self.kind == "table":
             return "a table with keys " + ", ".join(self.table)
+        if self.kind == "tables":
+            return "a non-empty array of tables with keys " + ", ".join(self.table)
         if self.kind is int:
             return f"a whole number from {self.low:g} to {self.high:g}"
         return f"a number from {self.low:g} to {self.high:g}"
@@ -64,6 +67,15 @@ _INCOMING = {
     "azimuth_deg": Key(float, 90.0, 270.0, required=False),
     "spin_rpm": Key(float, -6000.0, 6000.0, required=False),
     "sidespin_rpm": Key(float, -6000.0, 6000.0, required=False),
+}
+
+_DRILL_BALL = {
+    "label": Key(str),
+    "target_m": Key("vector", -15.0, 15.0, length=2),
+    "spin_rpm": Key(float, -5000.0, 5000.0),
+    "speed_kmh": Key(float, 5.0, 200.0, required=False),
+    "height_at_player_m": Key(float, 0.1, 4.0, required=False),
+    "repeat": Key(int, 1, 50, required=False),
 }
 
 SCHEMAS = {
@@ -121,6 +133,31 @@ SCHEMAS = {
         "impact_from_butt_m": Key(float, 0.3, 0.7, required=False),
         "impact_offaxis_m": Key(float, -0.12, 0.12, required=False),
         "toss": Key("table", table=_TOSS, required=False),
+    },
+    "machines": {
+        "name": Key(str),
+        "source": Key(str),
+        "speed_min_kmh": Key(float, 5.0, 250.0),
+        "speed_max_kmh": Key(float, 5.0, 250.0),
+        "spin_max_rpm": Key(float, 0.0, 8000.0),
+        "elevation_min_deg": Key(float, -30.0, 60.0),
+        "elevation_max_deg": Key(float, -30.0, 80.0),
+        "azimuth_max_deg": Key(float, 0.0, 60.0),
+        "release_height_m": Key(float, 0.2, 3.0),
+    },
+    "drills": {
+        "name": Key(str),
+        "source": Key(str),
+        "description": Key(str),
+        "coach": Key(str),
+        "club": Key(str),
+        "machine": Key(str),
+        "machine_position_m": Key("vector", -20.0, 20.0, length=2),
+        "ball": Key(str),
+        "air": Key(str),
+        "surface": Key(str),
+        "player_plane_m": Key(float, 0.0, 10.0, required=False),
+        "balls": Key("tables", table=_DRILL_BALL),
     },
     "scenarios": {
         "name": Key(str),
@@ -198,7 +235,7 @@ def _check(schema, data, where, prefix=""):
             if not isinstance(value, bool):
                 raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
         elif spec.kind == "vector":
-            if not isinstance(value, list) or len(value) != 3:
+            if not isinstance(value, list) or len(value) != spec.length:
                 raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
             value = [_number(v, spec, label) for v in value]
         elif spec.kind == "names":
@@ -208,6 +245,13 @@ def _check(schema, data, where, prefix=""):
             if not isinstance(value, dict):
                 raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
             value = _check(spec.table, value, where, prefix + key + ".")
+        elif spec.kind == "tables":
+            if not (value and isinstance(value, list) and all(isinstance(v, dict) for v in value)):
+                raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
+            value = [
+                _check(spec.table, v, where, f"{prefix}{key}[{i + 1}].")
+                for i, v in enumerate(value)
+            ]
         else:
             value = _number(value, spec, label)
         out[key] = value
@@ -224,6 +268,20 @@ def validate(kind, data, where):
                 f"{where}: key 'rebound_cm' must lie from rebound_min_cm {low:g} "
                 f"to rebound_max_cm {high:g}, got {out['rebound_cm']:g}"
             )
+    if kind == "machines":
+        for low, high in (
+            ("speed_min_kmh", "speed_max_kmh"),
+            ("elevation_min_deg", "elevation_max_deg"),
+        ):
+            if out[low] > out[high]:
+                raise InputError(f"{where}: key {low!r} must not exceed {high!r}")
+    if kind == "drills":
+        for i, ball in enumerate(out["balls"]):
+            if ("speed_kmh" in ball) == ("height_at_player_m" in ball):
+                raise InputError(
+                    f"{where}: balls[{i + 1}]: give exactly one of 'speed_kmh' and "
+                    "'height_at_player_m'"
+                )
     if kind == "rackets" and out["balance_m"] >= out["length_m"]:
         raise InputError(f"{where}: key 'balance_m' must be less than length_m")
     out["where"] = where
