@@ -877,5 +877,22 @@ def _write_drill(d, sheet, results, data, folder, step, speed_units):
     return written
 
 
+def _register_extensions():
+    """Commands that live in their own modules (plots and scenes, rallies) join the group here."""
+    import importlib
+
+    for name in ("rallyarc.cli_viz", "rallyarc.cli_rally"):
+        try:
+            module = importlib.import_module(name)
+        except ModuleNotFoundError as exc:
+            if exc.name != name:
+                raise
+            continue
+        module.register(main)
+
+
+_register_extensions()
+
+
 if __name__ == "__main__":
     main()
