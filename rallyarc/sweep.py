@@ -68,7 +68,9 @@ PARAMETERS = {
         Parameter("incoming_speed", "incoming ball speed", "km/h", KMH, "incoming", 5.0, 200.0),
         Parameter("incoming_spin", "incoming topspin", "rpm", RPM, "incoming", -5000.0, 5000.0),
         Parameter("launch_speed", "launch speed", "km/h", KMH, "launch", 10.0, 250.0),
-        Parameter("launch_angle", "launch angle above horizontal", "deg", DEG, "launch", -20.0, 60.0),
+        Parameter(
+            "launch_angle", "launch angle above horizontal", "deg", DEG, "launch", -20.0, 60.0
+        ),
         Parameter("launch_spin", "topspin at launch", "rpm", RPM, "launch", -5000.0, 6000.0),
     )
 }
@@ -138,9 +140,7 @@ class Launch:
 
     def value(self, parameter):
         """This launch's own value of a launch parameter (SI)."""
-        return {"launch_speed": self.speed, "launch_angle": self.angle}.get(
-            parameter, self.topspin
-        )
+        return {"launch_speed": self.speed, "launch_angle": self.angle}.get(parameter, self.topspin)
 
 
 def _incoming_for(stroke, incoming):

@@ -56,7 +56,14 @@ OUTCOME_WORDS = {
     "miss": "missed the racket",
 }
 _OUTCOME_MARKERS = {"in": "o", "net": "X", "long": "^", "wide": ">", "out": "D", "miss": "s"}
-_EVENT_MARKERS = {"contact": "o", "net": "D", "land": "v", "apex": "^", "receiver": "s", "twice": "X"}
+_EVENT_MARKERS = {
+    "contact": "o",
+    "net": "D",
+    "land": "v",
+    "apex": "^",
+    "receiver": "s",
+    "twice": "X",
+}
 _DPI = 110
 _MANY = 12  # more shots than this: paths thin, no number labels
 
@@ -286,7 +293,7 @@ def side_view(result, ax=None, dt=0.004):
     placer = _Placer(ax)
     placer.block_box(-0.15, 0.0, 0.15, court.NET_HEIGHT_CENTRE)
     events = []
-    for label, idx, k in groups:
+    for _label, idx, k in groups:
         colour = palette.variant_colour(k)
         for i in idx[:40] if many else idx:
             marks = _side_events(m, i, r, plane_x, _is_serve(result, [i]), colour)
@@ -360,7 +367,9 @@ def _side_court(ax, c, plane_x, bottom):
     x0, x1 = ax.get_xlim()
     ax.add_patch(Rectangle((x0, bottom), x1 - x0, -bottom, fc=hexes["surround"], lw=0, zorder=1))
     ax.add_patch(
-        Rectangle((-court.HALF_LENGTH, -band), court.LENGTH, band, fc=hexes["surface"], lw=0, zorder=1)
+        Rectangle(
+            (-court.HALF_LENGTH, -band), court.LENGTH, band, fc=hexes["surface"], lw=0, zorder=1
+        )
     )
     ax.axhline(0.0, color=hexes["ink"], lw=0.8, zorder=2)
     for x in (-court.HALF_LENGTH, -court.SERVICE_LINE, court.SERVICE_LINE, court.HALF_LENGTH):
@@ -705,9 +714,7 @@ def window_plot(window_result, ax=None):
     fig, ax, own = _figure(ax, (9.0, 6.8))
     px, py = PARAMETERS[w.x_param], PARAMETERS[w.y_param]
     xs, ys = px.from_si(w.x_values), py.from_si(w.y_values)
-    codes = np.vectorize(lambda o: _OUTCOME_ORDER.index(o) if o in _OUTCOME_ORDER else 5)(
-        w.outcome
-    )
+    codes = np.vectorize(lambda o: _OUTCOME_ORDER.index(o) if o in _OUTCOME_ORDER else 5)(w.outcome)
     cmap = ListedColormap([palette.OUTCOME_HEX[o] for o in _OUTCOME_ORDER])
     norm = BoundaryNorm(np.arange(len(_OUTCOME_ORDER) + 1) - 0.5, cmap.N)
     ax.pcolormesh(xs, ys, codes, cmap=cmap, norm=norm, shading="nearest", zorder=1,
