@@ -891,8 +891,9 @@ def _register_extensions():
         module.register(main)
 
 
-_register_extensions()
+if __name__ == "__main__":  # python -m rallyarc.cli: run the importable module's group
+    from rallyarc.cli import main as _main
 
-
-if __name__ == "__main__":
-    main()
+    _main()
+else:
+    _register_extensions()

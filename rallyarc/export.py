@@ -30,16 +30,29 @@ def atomic_write(path, write):
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     folder.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=folder)
+    # the temporary file keeps the real suffix, for writers that choose the format by it
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=f".part{path.suffix}", dir=folder)
     os.close(fd)
     try:
         write(tmp)
+        # mkstemp makes the file private (0600); give it the mode a plain new file would get
+        os.chmod(tmp, _existing_mode(path))
         os.replace(tmp, path)
     except BaseException:
         if os.path.exists(tmp):
             os.unlink(tmp)
         raise
     return path
+
+
+def _existing_mode(path):
+    """The mode of the file being replaced, or what the process's umask gives a new file."""
+    try:
+        return os.stat(path).st_mode & 0o7777
+    except FileNotFoundError:
+        umask = os.umask(0)
+        os.umask(umask)
+        return 0o666 & ~umask
 
 
 def write_text(path, text):

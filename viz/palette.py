@@ -63,6 +63,7 @@ OUTCOME_HEX = {
 COURT_HEX = {
     "surface": "#c9cfc2",
     "surround": "#dde2d6",
+    "ground": "#eef0ea",
     "line": "#ffffff",
     "net": "#2b2b2b",
     "net_band": "#f4f4f4",

@@ -313,6 +313,7 @@ def side_view(result, ax=None, dt=0.004):
         placer.block(x, z)
 
     _side_legends(fig, ax, own, result, many)
+    ax.set_title(_side_title(result), fontsize=10, loc="left", pad=18)
     _freeze(fig, own)
     if not many:
         prefer = {
@@ -326,7 +327,6 @@ def side_view(result, ax=None, dt=0.004):
         for kind, x, z, text, colour in sorted(events, key=lambda e: order.get(e[0], 9)):
             if text:
                 placer.place(x, z, text, colour, prefer[kind])
-    ax.set_title(_side_title(result), fontsize=10, loc="left")
     return fig
 
 
@@ -589,6 +589,9 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
         fontsize=10,
         loc="left",
     )
+    if own:  # room for the court to scale: the figure's height follows the court's aspect
+        (x0, x1), (y0, y1) = ax.get_xlim(), ax.get_ylim()
+        fig.set_size_inches(12.0, min(9.0, 1.9 + 10.6 * (y1 - y0) / (x1 - x0)))
     return fig
 
 

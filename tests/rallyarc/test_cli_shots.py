@@ -79,6 +79,8 @@ def test_compare_prints_every_variant_and_writes_its_files(tmp_path):
     traj = pd.read_parquet(out / "trajectories.parquet")
     csv = pd.read_csv(out / "trajectories.csv")
     assert len(traj) == len(csv) and traj["z_m"].to_numpy() == pytest.approx(csv["z_m"])
+    for figure in ("side_view.png", "top_view.png", "scene.png"):
+        assert (out / figure).stat().st_size > 10_000, figure
     second = run("compare", "--out", out)
     assert second.exit_code == 2 and "exists" in second.output
 

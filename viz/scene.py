@@ -1,0 +1,295 @@
+"""3D scenes of shots (pyvista): the court, the net, each variant's path as a tube, event markers.
+
+:func:`build_scene` assembles a :class:`pyvista.Plotter`; :func:`render_scene` renders it off
+screen to a PNG (no display needed: VTK renders through EGL or OSMesa), exports it as a glTF
+2.0 file (one file, buffers embedded, which any glTF viewer or web browser viewer opens without
+Python), or opens an interactive window where a display exists.
+
+Like :mod:`viz.plots`, nothing here computes physics: paths are the recorded trajectories
+sampled, markers are the metrics of the result. The court frame is the project's (x toward the
+far baseline, y to the hitter's left, z up, metres).
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+
+import numpy as np
+
+from rallyarc import court
+from rallyarc.export import atomic_write
+from viz import palette
+from viz.plots import display_label
+
+#: Camera presets: (position, focal point, view up) in the court frame [m].
+CAMERAS = {
+    "hitter": ((-court.HALF_LENGTH - 7.0, -1.5, 3.4), (4.0, 0.0, 0.6), (0.0, 0.0, 1.0)),
+    "side": ((1.0, -26.0, 3.2), (1.0, 0.0, 1.9), (0.0, 0.0, 1.0)),
+    "receiver": ((court.HALF_LENGTH + 7.5, 1.2, 2.8), (-4.0, 0.0, 0.9), (0.0, 0.0, 1.0)),
+    "overhead": ((3.2, 1.4, 44.0), (3.2, 1.4, 0.0), (0.0, 1.0, 0.0)),
+}
+CAMERA_WORDS = {
+    "hitter": "behind the hitter",
+    "side": "side-on",
+    "receiver": "the receiver's view",
+    "overhead": "overhead",
+}
+#: Marker shapes of the events along a path.
+MARKER_WORDS = {
+    "contact": "sphere: contact with the racket",
+    "net": "cube: net crossing",
+    "land": "disc: bounce",
+    "apex": "cone: apex after the bounce",
+}
+_MANY = 12  # more shots than this: thin tubes, no event markers, at most 60 paths
+_LINE_WIDTH = 0.05  # court lines [m] (ITF Rules of Tennis, Rule 1: 2.5-5 cm; baseline up to 10)
+_TUBE_RADIUS = 0.045  # about the ball's radius, enlarged a little to read at court scale
+
+
+def _quiet_vtk():
+    """Keep VTK's own log lines (e.g. that no X server is there) off the user's terminal."""
+    try:
+        from vtkmodules.vtkCommonCore import vtkLogger, vtkObject
+
+        vtkLogger.SetStderrVerbosity(vtkLogger.VERBOSITY_OFF)
+        vtkObject.GlobalWarningDisplayOff()
+    except ImportError:  # pragma: no cover - older VTK
+        pass
+
+
+def has_display():
+    """True when an interactive window can open (an X or Wayland display, or not Linux)."""
+    if os.name != "posix" or os.uname().sysname == "Darwin":
+        return True
+    return bool(os.environ.get("DISPLAY") or os.environ.get("WAYLAND_DISPLAY"))
+
+
+def _flat_box(pv, x0, x1, y0, y1, z0, z1):
+    return pv.Box(bounds=(x0, x1, y0, y1, z0, z1))
+
+
+def _court(pv, plotter, singles):
+    hexes = palette.COURT_HEX
+    hl, hw, sw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2, court.SINGLES_WIDTH / 2
+    plotter.add_mesh(
+        pv.Plane(center=(0, 0, -0.006), i_size=2 * hl + 60.0, j_size=2 * hw + 60.0),
+        color=hexes["ground"],
+        name="ground",
+    )
+    plotter.add_mesh(  # the run-off around the court (ITF recommended: 6.4 m and 3.66 m)
+        pv.Plane(center=(0, 0, -0.004), i_size=2 * hl + 12.8, j_size=2 * hw + 7.3),
+        color=hexes["surround"],
+        name="surround",
+    )
+    plotter.add_mesh(
+        pv.Plane(center=(0, 0, -0.002), i_size=2 * hl, j_size=2 * hw),
+        color=hexes["surface"],
+        name="surface",
+    )
+    w, z0, z1 = _LINE_WIDTH, 0.0, 0.004
+    lines = []
+    for y in (-hw, -sw, sw, hw):  # sidelines
+        lines.append(_flat_box(pv, -hl, hl, y - w / 2, y + w / 2, z0, z1))
+    for x in (-hl, hl):  # baselines
+        lines.append(_flat_box(pv, x - w / 2, x + w / 2, -hw, hw, z0, z1))
+    for x in (-court.SERVICE_LINE, court.SERVICE_LINE):  # service lines
+        lines.append(_flat_box(pv, x - w / 2, x + w / 2, -sw, sw, z0, z1))
+    lines.append(
+        _flat_box(pv, -court.SERVICE_LINE, court.SERVICE_LINE, -w / 2, w / 2, z0, z1)
+    )  # centre service line
+    for x in (-hl, hl - 0.10):  # centre marks
+        lines.append(_flat_box(pv, x, x + 0.10, -w / 2, w / 2, z0, z1))
+    merged = lines[0].merge(lines[1:])
+    plotter.add_mesh(merged, color=hexes["line"], name="lines")
+
+
+def _net(pv, plotter, singles):
+    """Net surface with its sag, the white band along the cord, posts and singles sticks."""
+    hexes = palette.COURT_HEX
+    support = court.SINGLES_STICK_Y if singles else court.POST_Y
+    ys = np.linspace(-support, support, 81)
+    top = court.net_height(ys, singles=singles)
+    plotter.add_mesh(_sheet(pv, ys, top), color=hexes["net"], opacity=0.55, name="net")
+    cord = np.column_stack([np.zeros_like(ys), ys, top - 0.025])
+    plotter.add_mesh(
+        pv.lines_from_points(cord).tube(radius=0.03), color=hexes["net_band"], name="net_band"
+    )
+    posts = [court.POST_Y, -court.POST_Y]
+    for y in posts:
+        plotter.add_mesh(
+            pv.Cylinder(center=(0, y, court.NET_HEIGHT_POST / 2), direction=(0, 0, 1),
+                        radius=0.05, height=court.NET_HEIGHT_POST),
+            color=hexes["net"],
+        )  # fmt: skip
+    if singles:
+        for y in (court.SINGLES_STICK_Y, -court.SINGLES_STICK_Y):
+            plotter.add_mesh(
+                pv.Cylinder(center=(0, y, court.NET_HEIGHT_POST / 2), direction=(0, 0, 1),
+                            radius=0.03, height=court.NET_HEIGHT_POST),
+                color=hexes["net_band"],
+            )  # fmt: skip
+        # the net beyond the singles sticks hangs at the sticks' height to the posts
+        for sign in (1.0, -1.0):
+            yy = sign * np.array([court.SINGLES_STICK_Y, court.POST_Y])
+            plotter.add_mesh(
+                _sheet(pv, yy, np.full(2, court.NET_HEIGHT_POST)), color=hexes["net"], opacity=0.35
+            )
+
+
+def _sheet(pv, ys, top):
+    """A vertical sheet in the plane x = 0 from the ground up to ``top`` (one quad per step)."""
+    n = len(ys)
+    points = np.concatenate(
+        [np.column_stack([np.zeros(n), ys, np.zeros(n)]), np.column_stack([np.zeros(n), ys, top])]
+    )
+    k = np.arange(n - 1)
+    faces = np.column_stack([np.full(n - 1, 4), k, k + 1, n + k + 1, n + k]).ravel()
+    return pv.PolyData(points, faces=faces)
+
+
+def _events(result, i):
+    """Event points of shot i: contact, net crossing, bounce, apex (court frame)."""
+    m = result.metrics
+    out = {"contact": result.incoming.position[i]}
+    if np.isfinite(m["net_t_s"][i]):
+        out["net"] = (0.0, m["net_y_m"][i], m["net_height_m"][i])
+    if np.isfinite(m["land_x_m"][i]):
+        out["land"] = (m["land_x_m"][i], m["land_y_m"][i], 0.0)
+    if np.isfinite(m["bounce_apex_m"][i]) and np.isfinite(m["bounce_apex_x_m"][i]):
+        # the apex's lateral position: on the path at the apex's x
+        _, pos, _ = result.path(i, dt=0.004)
+        after = pos[pos[:, 0] >= m["land_x_m"][i] - 1e-9] if "land" in out else pos
+        if after.size:
+            k = int(np.argmin(np.abs(after[:, 0] - m["bounce_apex_x_m"][i])))
+            if abs(after[k, 0] - m["bounce_apex_x_m"][i]) < 0.2:
+                out["apex"] = (m["bounce_apex_x_m"][i], after[k, 1], m["bounce_apex_m"][i])
+    return {k: np.asarray(v, float) for k, v in out.items()}
+
+
+def _marker(pv, kind, point, r):
+    x, y, z = point
+    if kind == "contact":
+        return pv.Sphere(radius=2.2 * r, center=point)
+    if kind == "net":
+        return pv.Cube(center=point, x_length=3 * r, y_length=3 * r, z_length=3 * r)
+    if kind == "land":
+        return pv.Cylinder(center=(x, y, 0.01), direction=(0, 0, 1), radius=5 * r, height=0.02)
+    return pv.Cone(center=(x, y, z + 2 * r), direction=(0, 0, -1), height=4 * r, radius=2 * r)
+
+
+def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=True, dt=0.004):
+    """A pyvista Plotter showing the shots of ``result`` on the court.
+
+    Parameters
+    ----------
+    result : rallyarc.shot.ShotResult
+        Recorded shots (``record=True``).
+    camera : str
+        A key of :data:`CAMERAS`: ``hitter``, ``side``, ``receiver`` or ``overhead``.
+    window_size : (width, height) in pixels.
+    off_screen : bool
+        Render without a window (for files); False for an interactive window.
+
+    Returns
+    -------
+    pyvista.Plotter
+    """
+    if camera not in CAMERAS:
+        raise ValueError(f"unknown camera {camera!r}; choose one of {', '.join(CAMERAS)}")
+    _quiet_vtk()
+    import pyvista as pv
+
+    c = result.conditions
+    r = c.ball.radius
+    plotter = pv.Plotter(off_screen=off_screen, window_size=list(window_size))
+    plotter.set_background("white")
+    _court(pv, plotter, c.singles)
+    _net(pv, plotter, c.singles)
+
+    labels = np.asarray(result.labels).astype(str)
+    order = list(dict.fromkeys(labels))
+    many = len(result) > _MANY
+    legend = []
+    for k, label in enumerate(order):
+        colour = palette.variant_colour(k)
+        idx = np.flatnonzero(labels == label)
+        for i in idx[: max(1, 60 // len(order))] if many else idx:
+            _, pos, _ = result.path(i, dt=dt)
+            pos = pos[np.all(np.isfinite(pos), axis=1)]
+            if len(pos) < 2:
+                continue
+            tube = pv.lines_from_points(pos).tube(
+                radius=_TUBE_RADIUS * (0.45 if many else 1.0), n_sides=12
+            )
+            plotter.add_mesh(
+                tube, color=colour, smooth_shading=True, ambient=0.25, opacity=0.6 if many else 1
+            )
+            if many:
+                continue
+            for kind, point in _events(result, i).items():
+                plotter.add_mesh(_marker(pv, kind, point, r), color=colour, smooth_shading=True)
+        name = display_label(label)
+        if many:
+            name += f" ({idx.size} shots)"
+        legend.append([name, colour])
+    plotter.add_legend(
+        labels=legend, bcolor="white", border=True,
+        size=(0.17, min(0.4, 0.032 * (len(legend) + 1))), loc="upper right", face="rectangle",
+    )  # fmt: skip
+    words = " | ".join(MARKER_WORDS.values()) if not many else "thin tubes: scattered shots"
+    plotter.add_text(
+        f"{c.surface_name}, ball {c.ball.name} - camera: {CAMERA_WORDS[camera]}",
+        position="upper_left", font_size=11, color=palette.COURT_HEX["ink"],
+    )  # fmt: skip
+    plotter.add_text(words, position="lower_left", font_size=10, color=palette.COURT_HEX["ink"])
+    position, focal, up = CAMERAS[camera]
+    plotter.camera_position = [position, focal, up]
+    plotter.camera.view_angle = 38.0 if camera != "overhead" else 34.0
+    return plotter
+
+
+_EXPORTS = {".gltf", ".glb"}
+
+
+def render_scene(
+    result, png_path=None, export_path=None, camera="hitter", show=False, window_size=(1400, 860)
+):
+    """Render the scene to a PNG (off screen), export it as glTF, and/or open a window.
+
+    Files are written atomically. Returns the PNG path if one was written, else the export's.
+    """
+    if export_path is not None and Path(export_path).suffix.lower() not in _EXPORTS:
+        raise ValueError(f"{export_path}: scene exports are .gltf or .glb files")
+    if show and not has_display():
+        raise ValueError("--show needs a display (none found: DISPLAY is not set)")
+    written = None
+    if png_path is not None or export_path is not None:
+        plotter = build_scene(result, camera=camera, window_size=window_size)
+        try:
+            if png_path is not None:
+                written = atomic_write(png_path, lambda tmp: plotter.screenshot(tmp))
+            if export_path is not None:
+                out = atomic_write(export_path, lambda tmp: _export_gltf(plotter, tmp))
+                written = written or out
+        finally:
+            plotter.close()
+    if show:
+        plotter = build_scene(result, camera=camera, window_size=window_size, off_screen=False)
+        plotter.show()
+    return written
+
+
+def _export_gltf(plotter, path):
+    """glTF 2.0 with its buffers inline (.gltf), or binary (.glb)."""
+    if str(path).lower().endswith(".glb"):
+        from vtkmodules.vtkIOExport import vtkGLTFExporter
+
+        exporter = vtkGLTFExporter()
+        exporter.SetRenderWindow(plotter.render_window)
+        exporter.SetFileName(str(path))
+        exporter.InlineDataOn()
+        exporter.SaveNormalOn()
+        exporter.Write()
+        return
+    plotter.export_gltf(str(path), inline_data=True, save_normals=True)
