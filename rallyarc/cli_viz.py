@@ -353,14 +353,19 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
     help="Camera preset; 'all' writes one PNG per preset (NAME_hitter.png, ...).",
 )
 @click.option("--out", default="scene.png", show_default=True, help="PNG rendered off screen.")
-@click.option("--export", "export_path", default=None, help="Also export the scene (.gltf).")
+@click.option(
+    "--export",
+    "export_path",
+    default=None,
+    help="Also export the scene: .html (opens in a web browser) or .gltf.",
+)
 @click.option("--show", is_flag=True, help="Open an interactive window (needs a display).")
 @click.option("--force", is_flag=True, help="Overwrite existing files.")
 def scene_cmd(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter,
               seed, camera, out, export_path, show, force):  # fmt: skip
     """The shots of SCENARIO in 3D: court, net, paths as tubes, markers at contact, net crossing,
-    bounce and apex. Rendered off screen to PNG; --export writes a glTF file that any glTF
-    viewer opens; --show opens a window."""
+    bounce and apex. Rendered off screen to PNG; --export writes a self-contained HTML page (any
+    web browser, no Python) or a glTF file; --show opens a window."""
     from rallyarc import export
     from viz import scene
 
@@ -373,7 +378,7 @@ def scene_cmd(scenario, stroke_names, ball, racket, air, surface_name, receiver_
     )
     targets = list(pngs)
     if export_path is not None:
-        export_path = _figure_path(export_path, "--export", (".gltf",))
+        export_path = _figure_path(export_path, "--export", (".html", ".gltf"))
         targets.append(export_path)
     export.check_targets(targets, force)
     if show and not scene.has_display():

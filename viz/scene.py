@@ -3,7 +3,8 @@
 :func:`build_scene` assembles a :class:`pyvista.Plotter`; :func:`render_scene` renders it off
 screen to a PNG (no display needed: VTK renders through EGL or OSMesa), exports it as a glTF
 2.0 file (one file, buffers embedded, which any glTF viewer or web browser viewer opens without
-Python), or opens an interactive window where a display exists.
+Python) or as one self-contained HTML page with its own small WebGL viewer
+(:mod:`viz.scene_html`), or opens an interactive window where a display exists.
 
 Like :mod:`viz.plots`, nothing here computes physics: paths are the recorded trajectories
 sampled, markers are the metrics of the result. The court frame is the project's (x toward the
@@ -243,13 +244,19 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
         position="upper_left", font_size=11, color=palette.COURT_HEX["ink"],
     )  # fmt: skip
     plotter.add_text(words, position="lower_left", font_size=10, color=palette.COURT_HEX["ink"])
+    plotter._rallyarc_page = {  # what the HTML export shows beside the meshes
+        "title": f"{', '.join(display_label(x) for x in order)} on {c.surface_name}",
+        "legend": legend,
+        "markers": words,
+        "start": camera,
+    }
     position, focal, up = CAMERAS[camera]
     plotter.camera_position = [position, focal, up]
     plotter.camera.view_angle = 38.0 if camera != "overhead" else 34.0
     return plotter
 
 
-_EXPORTS = {".gltf", ".glb"}
+_EXPORTS = {".gltf", ".html"}
 
 
 def render_scene(
@@ -260,7 +267,7 @@ def render_scene(
     Files are written atomically. Returns the PNG path if one was written, else the export's.
     """
     if export_path is not None and Path(export_path).suffix.lower() not in _EXPORTS:
-        raise ValueError(f"{export_path}: scene exports are .gltf or .glb files")
+        raise ValueError(f"{export_path}: scene exports are .gltf or .html files")
     if show and not has_display():
         raise ValueError("--show needs a display (none found: DISPLAY is not set)")
     written = None
@@ -270,7 +277,7 @@ def render_scene(
             if png_path is not None:
                 written = atomic_write(png_path, lambda tmp: plotter.screenshot(tmp))
             if export_path is not None:
-                out = atomic_write(export_path, lambda tmp: _export_gltf(plotter, tmp))
+                out = atomic_write(export_path, lambda tmp: _export(plotter, tmp))
                 written = written or out
         finally:
             plotter.close()
@@ -280,16 +287,15 @@ def render_scene(
     return written
 
 
-def _export_gltf(plotter, path):
-    """glTF 2.0 with its buffers inline (.gltf), or binary (.glb)."""
-    if str(path).lower().endswith(".glb"):
-        from vtkmodules.vtkIOExport import vtkGLTFExporter
+def _export(plotter, path):
+    """glTF 2.0 with its buffers inline (.gltf), or a self-contained HTML page (.html)."""
+    if str(path).lower().endswith(".html"):
+        from viz.scene_html import page
 
-        exporter = vtkGLTFExporter()
-        exporter.SetRenderWindow(plotter.render_window)
-        exporter.SetFileName(str(path))
-        exporter.InlineDataOn()
-        exporter.SaveNormalOn()
-        exporter.Write()
+        info = plotter._rallyarc_page
+        text = page(plotter, info["title"], info["legend"], info["markers"], CAMERAS,
+                    info["start"])  # fmt: skip
+        with open(path, "w", encoding="utf-8") as fh:
+            fh.write(text)
         return
     plotter.export_gltf(str(path), inline_data=True, save_normals=True)
