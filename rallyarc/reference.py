@@ -1,0 +1,207 @@
+"""One shot at a time with scipy's ``solve_ivp``: the straightforward implementation of the chain.
+
+The same physics as :func:`rallyarc.shot.simulate` (the project's impact and bounce functions
+called with one ball, :func:`flight.forces.acceleration` as the right-hand side), but each flight
+is a separate ``solve_ivp`` call with its events as functions: the net plane, the receiver's
+plane, the apex and the ground. With ``method="RK45", rtol=1e-6`` it is the per-shot baseline of
+``benchmarks/throughput.py``; with ``method="DOP853", rtol=1e-10, atol=1e-12`` it is the
+accuracy reference of the batch engine (tests/rallyarc/test_batch.py).
+
+References
+----------
+Virtanen, P. et al. (2020), SciPy 1.0: fundamental algorithms for scientific computing in
+Python, Nature Methods 17:261-272, doi:10.1038/s41592-019-0686-2 (``scipy.integrate.solve_ivp``).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy.integrate import solve_ivp
+
+from bounce.contact import bounce
+from flight.forces import acceleration
+from impact.contact import hit
+from impact.geometry import face_orientation, swing_velocity
+from rallyarc import court
+from rallyarc.shot import T_MAX, judge_landing
+
+#: The reference integrator's settings (tight enough that its own error is far below 1 µm).
+REFERENCE = {"method": "DOP853", "rtol": 1e-10, "atol": 1e-12}
+#: The per-shot baseline: solve_ivp's default method at the batch engine's tolerance.
+BASELINE = {"method": "RK45", "rtol": 1e-6, "atol": 1e-6}
+
+
+def _event(fun, terminal=False, direction=0):
+    fun.terminal, fun.direction = terminal, direction
+    return fun
+
+
+def _fly_one(x0, v0, w0, t0, params, events, method, rtol, atol):
+    """One ball from ``t0`` until the ground (or ``T_MAX``); returns the solve_ivp solution."""
+    k = params.spin_decay_rate
+
+    def rhs(t, y):
+        spin = w0 * np.exp(-k * (t - t0))
+        return np.concatenate([y[3:], acceleration(y[3:][None], spin[None], params)[0]])
+
+    return solve_ivp(
+        rhs,
+        (t0, t0 + T_MAX),
+        np.concatenate([x0, v0]),
+        method=method,
+        rtol=rtol,
+        atol=atol,
+        events=events,
+    )
+
+
+def _first(sol, j):
+    """Time and state ``(t, y)`` of the first occurrence of event ``j``, or None."""
+    if sol.t_events[j].size:
+        return sol.t_events[j][0], sol.y_events[j][0]
+    return None
+
+
+def play_shot(position, velocity, spin, swing, conditions, serve=False, **solver):
+    """Play one shot: impact, flight, bounce, flight to the receiver's plane.
+
+    Parameters
+    ----------
+    position, velocity, spin : array of 3
+        The incoming ball at the contact point [m], [m/s], [rad/s].
+    swing : mapping
+        One swing: the fields of :class:`rallyarc.shot.Swing` as numbers (SI).
+    conditions : rallyarc.domain.Conditions
+    serve : bool
+        Whether the landing is judged against the service box.
+    **solver
+        ``method``, ``rtol`` and ``atol`` of ``solve_ivp`` (default :data:`BASELINE`).
+
+    Returns
+    -------
+    dict
+        ``outcome``, ``land_x_m``, ``land_y_m``, ``land_t_s``, ``net_height_m``,
+        ``net_clearance_m``, ``bounce_apex_m``, ``receiver_height_m``, ``receiver_t_s`` and
+        ``bounce_second_x_m``, named and defined as in :attr:`rallyarc.shot.ShotResult.metrics`
+        (NaN where the shot has none).
+    """
+    opts = {**BASELINE, **solver}
+    ball, racket = conditions.ball, conditions.racket
+    r = ball.radius
+    params = conditions.flight_params()
+    sw = {k: np.atleast_1d(float(v)) for k, v in swing.items()}
+    normal, axis = face_orientation(sw["face_tilt"], sw["face_azimuth"], sw["racket_roll"])
+    face_v = swing_velocity(sw["head_speed"], sw["swing_path"], sw["swing_direction"])
+    contact = hit(
+        np.asarray(velocity, float)[None],
+        np.asarray(spin, float)[None],
+        face_v,
+        normal,
+        axis,
+        racket.racket,
+        sw["impact_from_butt"],
+        sw["impact_offaxis"],
+        ball.mass,
+        r,
+        ball.alpha,
+        racket.string_restitution,
+        racket.string_friction,
+    )
+    x0 = np.asarray(position, float)
+    v0, w0 = contact.velocity[0], contact.spin[0]
+    approaching = bool(contact.approaching[0])
+    far_plane = court.HALF_LENGTH + conditions.receiver_plane_m
+    nan = float("nan")
+    out = dict.fromkeys(
+        (
+            "land_x_m",
+            "land_y_m",
+            "land_t_s",
+            "net_height_m",
+            "net_clearance_m",
+            "bounce_apex_m",
+            "receiver_height_m",
+            "receiver_t_s",
+            "bounce_second_x_m",
+        ),
+        nan,
+    )
+
+    net = _event(lambda t, y: y[0], direction=1)
+    receiver = _event(lambda t, y: y[0] - far_plane, direction=1)
+    top = _event(lambda t, y: y[5], direction=-1)
+    ground = _event(lambda t, y: y[2] - r, terminal=True, direction=-1)
+
+    first = _fly_one(x0, v0, w0, 0.0, params, [net, receiver, top, ground], **_solver(opts))
+    crossing = _first(first, 0) if approaching else None
+    over = False
+    if crossing is not None:
+        y_net = crossing[1]
+        clearance = y_net[2] - r - float(court.net_height(y_net[1], conditions.singles))
+        out["net_height_m"], out["net_clearance_m"] = y_net[2], clearance
+        over = clearance >= 0.0
+    rec = _first(first, 1)
+    if rec is not None:
+        out["receiver_t_s"], out["receiver_height_m"] = rec[0], rec[1][2]
+    landing = _first(first, 3)
+    if landing is None:
+        out["outcome"] = "miss" if not approaching else "net"
+        return out
+    t_land, y_land = landing
+    out["land_x_m"], out["land_y_m"], out["land_t_s"] = y_land[0], y_land[1], t_land
+    call = judge_landing([y_land[0]], [y_land[1]], [x0[1]], [serve], conditions.singles)[
+        "land_call"
+    ][0]
+    past_net = over and y_land[0] > 0.0
+    out["outcome"] = "miss" if not approaching else (str(call) if past_net else "net")
+    if not past_net:
+        return out
+
+    # the bounce and the free flight to the second bounce
+    w_land = w0 * np.exp(-params.spin_decay_rate * t_land)
+    res = bounce(y_land[3:][None], w_land[None], r, ball.alpha, conditions.surface_for_ball())
+    second = _fly_one(
+        y_land[:3],
+        res.velocity[0],
+        res.spin[0],
+        t_land,
+        params,
+        [receiver, top, ground],
+        **_solver(opts),
+    )
+    apex = _first(second, 1)
+    out["bounce_apex_m"] = apex[1][2] if apex is not None else r
+    rec2 = _first(second, 0)
+    if rec is None and rec2 is not None:
+        out["receiver_t_s"], out["receiver_height_m"] = rec2[0], rec2[1][2]
+    twice = _first(second, 2)
+    if twice is not None:
+        out["bounce_second_x_m"] = twice[1][0]
+    return out
+
+
+def _solver(opts):
+    return {"method": opts["method"], "rtol": opts["rtol"], "atol": opts["atol"]}
+
+
+def play_shots(incoming, swing, conditions, serve=None, **solver):
+    """:func:`play_shot` for each of N shots in turn (a :class:`rallyarc.shot.BallState` and a
+    :class:`rallyarc.shot.Swing`); returns a dict of ``(N,)`` arrays."""
+    n = len(incoming)
+    serve = np.zeros(n, bool) if serve is None else np.broadcast_to(serve, (n,))
+    rows = []
+    for i in range(n):
+        values = {f: getattr(swing, f)[i] for f in type(swing).FIELDS}
+        rows.append(
+            play_shot(
+                incoming.position[i],
+                incoming.velocity[i],
+                incoming.spin[i],
+                values,
+                conditions,
+                serve=bool(serve[i]),
+                **solver,
+            )
+        )
+    keys = rows[0].keys() if rows else ()
+    return {k: np.array([row[k] for row in rows]) for k in keys}
