@@ -683,12 +683,20 @@ def aim_stroke_cmd(
         f" deg, {m['impact_topspin_rpm'][0]:+.0f} rpm topspin",
         f"lands:   x {m['land_x_m'][0]:+.2f}, y {m['land_y_m'][0]:+.2f} "
         f"({data['miss_m'] * 100:.1f} cm from the target), {m['outcome'][0]}",
-        f"net:     clearance {m['net_clearance_m'][0]:+.2f} m; receiver height "
-        f"{m['receiver_height_m'][0]:.2f} m",
+        f"net:     clearance {m['net_clearance_m'][0]:+.2f} m; " + _receiver_words(m),
     ]
     if csv_path is not None:
         lines.append(f"trajectory written to {csv_path}")
     _emit(data, as_json, lines)
+    if not data["reachable"]:
+        sys.exit(1)
+
+
+def _receiver_words(m):
+    h = m["receiver_height_m"][0]
+    if math.isfinite(h):
+        return f"height at the receiver's plane {h:.2f} m"
+    return "bounces twice before the receiver's plane"
 
 
 @aim.command("feed")
@@ -793,6 +801,8 @@ def aim_feed_cmd(
         "rules and qualified coaching practice.",
     ]
     _emit(data, as_json, lines)
+    if not data["reachable"]:
+        sys.exit(1)
 
 
 @main.command()

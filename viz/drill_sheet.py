@@ -135,6 +135,10 @@ def drill_sheet(drill, sheet, paths, safety, units="kmh"):
         f"{r.ball}. {r.label}" + ("" if r.reachable else f"  NOT REACHABLE: {r.note}")
         for r in sheet.itertuples()
     ]
+    notes.append(
+        "at player: ball height at the player's contact plane; time: from release to that plane;"
+        " - : the ball bounces twice before it gets there"
+    )
     fig.text(0.06, 0.36, "\n".join(notes), fontsize=8, va="top", wrap=True)
     fig.text(
         0.06,

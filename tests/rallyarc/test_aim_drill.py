@@ -198,3 +198,15 @@ def test_aim_commands_print_and_write(tmp_path):
     assert traj["x_m"].iloc[0] == pytest.approx(11.0)  # court frame: starts at the machine
     bad = CliRunner().invoke(main, ["aim", "feed", "--target", "9,2", "--speed", "80km/h"])
     assert bad.exit_code == 2 and "--target" in bad.output
+
+
+def test_an_unreachable_target_exits_with_status_1_after_saying_why():
+    """A 40 km/h feed cannot carry 22 m to the far baseline: reported, and the exit status says
+    so for scripts (0 solved, 1 not reachable, 2 bad input)."""
+    args = ["aim", "feed", "--target", "-11,4", "--spin", "3000", "--speed", "40km/h"]
+    run = CliRunner().invoke(main, args)
+    assert run.exit_code == 1
+    assert "NOT REACHABLE" in run.output and "Safety" in run.output
+    stroke = CliRunner().invoke(main, ["aim", "stroke", "--target", "4,0", "--solve", "speed"])
+    assert stroke.exit_code in (0, 1)
+    assert ("solved" in stroke.output) == (stroke.exit_code == 0)
