@@ -105,7 +105,7 @@ class RandomShots:
         return self.n
 
     def _block(self, k):
-        size = min(self.block, self.n - k * self.block)
+        size = self.block  # always a whole block, so that shot i does not depend on n
         rng = np.random.default_rng([self.seed, k])
         serve = rng.random(size) < self.serve_fraction
         g = rng.integers(len(self.ground), size=size)
@@ -255,6 +255,8 @@ def run_batch(
     if workers < 1:
         raise ValueError("workers must be at least 1")
     columns = None if columns is None else list(columns)
+    if workers > 1:
+        chunk = max(1, min(chunk, -(-n // workers)))  # every worker gets part of a short run
     bounds = [(i, min(i + chunk, n)) for i in range(0, n, chunk)]
     out = {}
     done = 0
