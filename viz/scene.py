@@ -230,15 +230,18 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
                 continue
             for kind, point in _events(result, i).items():
                 plotter.add_mesh(_marker(pv, kind, point, r), color=colour, smooth_shading=True)
-        name = display_label(label)
-        if many:
-            name += f" ({idx.size} shots)"
-        legend.append([name, colour])
-    plotter.add_legend(
-        labels=legend, bcolor="white", border=True,
-        size=(0.17, min(0.4, 0.032 * (len(legend) + 1))), loc="upper right", face="rectangle",
-    )  # fmt: skip
-    words = " | ".join(MARKER_WORDS.values()) if not many else "thin tubes: scattered shots"
+        legend.append([display_label(label), colour])
+    height = min(0.4, 0.01 + 0.026 * len(legend))
+    box = plotter.add_legend(labels=legend, bcolor="white", border=True, size=(0.18, height),
+                             loc="upper right", face="rectangle")  # fmt: skip
+    box.SetPosition(0.80, 0.975 - height)  # fixed corner: the box no longer shrinks to few rows
+    box.SetPosition2(0.18, height)
+    words = (
+        " | ".join(MARKER_WORDS.values())
+        if not many
+        else f"thin tubes: {len(result)} scattered shots (up to {max(1, 60 // len(order))} drawn "
+        "per stroke)"
+    )
     plotter.add_text(
         f"{c.surface_name}, ball {c.ball.name} - camera: {CAMERA_WORDS[camera]}",
         position="upper_left", font_size=11, color=palette.COURT_HEX["ink"],
