@@ -38,7 +38,8 @@ class StepanekAero:
 
     def drag(self, spin_parameter):
         """Drag coefficient ``C_D(S)`` [-]."""
-        u = np.asarray(spin_parameter, dtype=float) ** 2.5
+        s = np.asarray(spin_parameter, dtype=float)
+        u = s * s * np.sqrt(s)  # S^2.5, cheaper than a power
         return 0.508 + (u / (self.drag_constant * u + 4.196)) ** 0.4
 
     def lift_slope(self, spin_parameter):

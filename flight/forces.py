@@ -117,14 +117,19 @@ def aerodynamic_acceleration(air_velocity, spin, params):
     vx, vy, vz = air_velocity
     wx, wy, wz = spin
     speed2 = vx * vx + vy * vy + vz * vz
-    speed = np.sqrt(speed2)
-    cross = np.stack((wy * vz - wz * vy, wz * vx - wx * vz, wx * vy - wy * vx))
-    cross_norm = np.sqrt(cross[0] * cross[0] + cross[1] * cross[1] + cross[2] * cross[2])
-    s = params.radius * cross_norm / np.maximum(speed2, 1e-300)
+    # w x v, one component at a time (no (3, N) temporaries on the hot path)
+    cx = wy * vz - wz * vy
+    cy = wz * vx - wx * vz
+    cz = wx * vy - wy * vx
+    s = params.radius * np.sqrt(cx * cx + cy * cy + cz * cz) / np.maximum(speed2, 1e-300)
     k = params.drag_factor
-    drag = (-k * params.aero.drag(s) * speed) * air_velocity
-    lift = (k * params.radius * params.aero.lift_slope(s)) * cross
-    return drag + lift
+    drag = -k * params.aero.drag(s) * np.sqrt(speed2)  # times v
+    lift = k * params.radius * params.aero.lift_slope(s)  # times w x v
+    out = np.empty(np.broadcast_shapes(np.shape(air_velocity), np.shape(spin)))
+    out[0] = drag * vx + lift * cx
+    out[1] = drag * vy + lift * cy
+    out[2] = drag * vz + lift * cz
+    return out
 
 
 def acceleration(velocity, spin, params):

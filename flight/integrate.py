@@ -215,7 +215,9 @@ class _Rhs:
     def __call__(self, t, v, spin0):
         air = v if self.still_air else v - self.wind
         spin = spin_at(spin0, t, self.params)
-        return self.gravity + aerodynamic_acceleration(air, spin, self.params)
+        acc = aerodynamic_acceleration(air, spin, self.params)
+        acc += self.gravity
+        return acc
 
 
 def _error_norm(err_x, err_v, x0, x1, v0, v1, rtol, atol):
@@ -260,7 +262,7 @@ def _quintic_coefficients(p0, q0, r0, p1, q1, r1):
 def _horner(c, s):
     """Value and derivative in ``s`` of the polynomial with coefficients ``c`` (lowest first)."""
     value = c[5]
-    slope = np.zeros_like(s)
+    slope = 0.0
     for coeff in c[4::-1]:
         slope = slope * s + value
         value = value * s + coeff
@@ -275,7 +277,7 @@ def _first_root(c, n_samples=8, iterations=6):
     refined by safeguarded Newton iterations on the quintic. Returns ``(found, s)``.
     """
     grid = np.linspace(0.0, 1.0, n_samples + 1)
-    values = np.stack([_horner(c, np.full(c[0].shape, si))[0] for si in grid])
+    values = _horner(c, grid[:, None])[0]  # (n_samples + 1, M) in one pass
     hit = (values[:-1] > 0) & (values[1:] <= 0)
     found = hit.any(axis=0)
     first = np.argmax(hit, axis=0)
@@ -325,23 +327,39 @@ def _crossings(event, normal, offset, sense, h, ends):
     return _first_root(c)
 
 
-def _state_on_plane(rhs, params, event, normal, offset, t, h_sub, start, spin0):
-    """Time, position and velocity where balls meet a plane inside an accepted step.
+def _states_on_planes(rhs, events, normals, offsets, hits, gi, t, h, start, spin0):
+    """Time, position and velocity where balls meet event planes inside accepted steps.
 
-    The interpolant gives the fraction of the step; a fresh Dormand-Prince step of that length
-    from the start of the step gives the state there to the integrator's own accuracy, and one
-    Taylor correction ``dt = -g / g'`` puts the ball on the plane.
+    ``hits`` are the ``(event, columns, s)`` of :func:`_event_roots`: the interpolant gives the
+    fraction ``s`` of the step. One fresh Dormand-Prince step of that length from the start of
+    the step, for the balls of every event together, gives the state there to the integrator's
+    own accuracy, and one Taylor correction ``dt = -g / g'`` puts each ball on its plane.
+    Returns ``(t, x, v)`` for each entry of ``hits``.
     """
-    x0, v0, a0 = start
-    x, v, a, _, _ = _dp_step(rhs, t, x0, v0, a0, h_sub, spin0)
-    if event.on == "velocity":
-        slope = normal @ a
-        dt = -(normal @ v - offset) / np.where(slope != 0, slope, 1.0)
-    else:
-        dt = -(normal @ x - offset) / (normal @ v)
-    x = x + v * dt + 0.5 * a * dt * dt
-    v = v + a * dt
-    return t + h_sub + dt, x, v
+    if not hits:
+        return []
+    cols = np.concatenate([cand for _, cand, _ in hits])
+    h_sub = np.concatenate([s for _, _, s in hits]) * h[cols]
+    t_sub = t[cols]
+    x_all, v_all, a_all, _, _ = _dp_step(
+        rhs, t_sub, *(e[:, cols] for e in start), h_sub, spin0[:, cols]
+    )
+    placed, first = [], 0
+    for ev, cand, _ in hits:
+        part = slice(first, first + cand.size)
+        first += cand.size
+        j = events.index(ev)
+        normal, offset = normals[j], offsets[j][gi[cand]]
+        x, v, a = x_all[:, part], v_all[:, part], a_all[:, part]
+        if ev.on == "velocity":
+            slope = normal @ a
+            dt = -(normal @ v - offset) / np.where(slope != 0, slope, 1.0)
+        else:
+            dt = -(normal @ x - offset) / (normal @ v)
+        x = x + v * dt + 0.5 * a * dt * dt
+        v = v + a * dt
+        placed.append((t_sub[part] + h_sub[part] + dt, x, v))
+    return placed
 
 
 def _event_roots(events, normals, offsets, gi, h, ends, rec):
@@ -533,19 +551,11 @@ def _fly_chunk(x_in, v_in, w_in, params, events, offsets, t0_in, t_max, rtol, at
                 s_end[cand[earlier]] = s[earlier]
                 which_term[cand[earlier]] = events.index(ev)
         stop = np.flatnonzero(which_term >= 0)
-        for ev, cand, s in hits:
-            cand, s = cand[s <= s_end[cand]], s[s <= s_end[cand]]
-            t_ev, pos, vel = _state_on_plane(
-                rhs,
-                params,
-                ev,
-                normals[events.index(ev)],
-                offsets[events.index(ev)][gi[cand]],
-                t_acc[cand],
-                s * h_acc[cand],
-                tuple(e[:, cand] for e in ends[:3]),
-                w0[:, acc[cand]],
-            )
+        hits = [(ev, cand[s <= s_end[cand]], s[s <= s_end[cand]]) for ev, cand, s in hits]
+        placed = _states_on_planes(
+            rhs, events, normals, offsets, hits, gi, t_acc, h_acc, ends[:3], w0[:, acc]
+        )
+        for (ev, cand, _), (t_ev, pos, vel) in zip(hits, placed, strict=True):
             g = gi[cand]
             r = rec[ev.name]
             r.occurred[g] = True
