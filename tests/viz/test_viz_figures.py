@@ -36,7 +36,7 @@ def colour_count(img, hex_colour, tol=18):
 
 def not_blank(img):
     # a blank or single-colour image has (almost) no spread of values
-    return img.std() > 20 and len(np.unique(img.reshape(-1, 3), axis=0)) > 50
+    return img.std() > 8 and len(np.unique(img.reshape(-1, 3), axis=0)) > 50
 
 
 # ----------------------------------------------------------------------------- 2D figures
