@@ -174,6 +174,86 @@ SCHEMAS = {
         "strokes": Key("names"),
         "incoming": Key("table", table=_INCOMING, required=False),
     },
+    # rally patterns (rallyarc.rally): two players, each with serves, a repertoire of shots and
+    # execution scatter; targets are in the hitter's own frame (hitting toward +x)
+    "patterns": {
+        "name": Key(str),
+        "source": Key(str),
+        "description": Key(str),
+        "club": Key(str),
+        "ball": Key(str),
+        "air": Key(str),
+        "surface": Key(str),
+        "server": Key(str, choices=("near", "far", "alternate"), required=False),
+        "max_shots": Key(int, 1, 200, required=False),
+        **{
+            end: Key(
+                "table",
+                table={
+                    "name": Key(str),
+                    "source": Key(str),
+                    "handedness": Key(str, choices=("right", "left")),
+                    "racket": Key(str),
+                    "height_m": Key(float, 1.0, 2.3),
+                    "shoulder_height_m": Key(float, 0.8, 2.0, required=False),
+                    "home_behind_baseline_m": Key(float, -2.0, 6.0),
+                    "home_y_m": Key(float, -4.0, 4.0, required=False),
+                    "deepest_behind_baseline_m": Key(float, -2.0, 8.0),
+                    "reach_m": Key(float, 0.3, 3.0),
+                    "run_speed_mps": Key(float, 0.0, 10.0),
+                    "reaction_s": Key(float, 0.0, 1.5, required=False),
+                    "contact_height_m": Key("vector", 0.1, 3.5, length=2),
+                    "lowest_contact_m": Key(float, 0.05, 1.5, required=False),
+                    "highest_contact_m": Key(float, 0.5, 3.5),
+                    "timing": Key(str, choices=("rise", "apex", "drop")),
+                    "scatter": Key(
+                        "table",
+                        table={
+                            "head_speed_kmh": Key(float, 0.0, 40.0),
+                            "face_tilt_deg": Key(float, 0.0, 15.0),
+                            "swing_path_deg": Key(float, 0.0, 20.0),
+                            "aim_m": Key(float, 0.0, 5.0),
+                        },
+                    ),
+                    "serves": Key(
+                        "tables",
+                        table={
+                            "label": Key(str),
+                            "stroke": Key(str),
+                            "serve": Key(str, choices=("first", "second")),
+                            "probability": Key(float, 0.0, 1.0),
+                            "target_x_m": Key("vector", 0.5, 6.4, length=2),
+                            "target_y_m": Key("vector", 0.0, 4.115, length=2),
+                        },
+                    ),
+                    "shots": Key(
+                        "tables",
+                        table={
+                            "label": Key(str),
+                            "stroke": Key(str),
+                            "probability": Key(float, 0.0, 1.0),
+                            "target_x_m": Key("vector", 0.5, 11.885, length=2),
+                            "target_y_m": Key("vector", -5.5, 5.5, length=2),
+                            "direction": Key(
+                                str,
+                                choices=("fixed", "crosscourt", "line", "backhand", "forehand"),
+                                required=False,
+                            ),
+                            "aim": Key(str, choices=("tilt", "speed"), required=False),
+                            "clearance_m": Key(float, 0.0, 5.0, required=False),
+                            "when_height_above_m": Key(float, 0.0, 4.0, required=False),
+                            "when_height_below_m": Key(float, 0.0, 4.0, required=False),
+                            "when_side": Key(str, choices=("forehand", "backhand"), required=False),
+                            "when_incoming_topspin_above_rpm": Key(
+                                float, -8000.0, 8000.0, required=False
+                            ),
+                        },
+                    ),
+                },
+            )
+            for end in ("near", "far")
+        },
+    },
 }
 
 

@@ -1,0 +1,314 @@
+"""Figures of rally runs (matplotlib, headless): landing heatmaps, contact heights, spin exchange.
+
+Every function takes the per-shot table of :func:`rallyarc.rally.play_rallies` (a pandas
+DataFrame, positions in the court frame) and its summary (:func:`rallyarc.rally.summarize`)
+and returns a matplotlib Figure made without pyplot. Nothing here computes physics. Colours
+come from :mod:`viz.palette`.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.colors import LinearSegmentedColormap
+from matplotlib.figure import Figure
+from matplotlib.lines import Line2D
+from matplotlib.patches import Patch, Rectangle
+
+from rallyarc import court
+from rallyarc.export import atomic_write
+from viz import palette
+
+_DPI = 120
+#: Most points drawn per panel of the spin exchange (a random subset beyond it, fixed seed).
+SPIN_POINTS = 4000
+#: Landing heatmap cell [m].
+CELL_M = 0.5
+
+LANDING_CMAP = LinearSegmentedColormap.from_list(
+    "rallyarc_landings",
+    [palette.COURT_HEX["surface"], palette.VARIANT_HEX[2], palette.VARIANT_HEX[0]],
+)
+_PHASE_COLOURS = {
+    "rise": palette.VARIANT_HEX[1],
+    "apex": palette.VARIANT_HEX[4],
+    "drop": palette.VARIANT_HEX[0],
+}
+
+
+def _figure(figsize):
+    fig = Figure(figsize=figsize, layout="constrained")
+    FigureCanvasAgg(fig)
+    return fig
+
+
+def _players(summary):
+    return list(summary["players"])
+
+
+def _court(ax, zorder=3):
+    """The court's lines (5 cm, to scale), net and posts, drawn above the data."""
+    hexes = palette.COURT_HEX
+    hl, hw, sw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2, court.SINGLES_WIDTH / 2
+    w = 0.05
+
+    def strip(xa, ya, xb, yb):
+        if xa == xb:
+            rect = Rectangle((xa - w / 2, ya), w, yb - ya)
+        else:
+            rect = Rectangle((xa, ya - w / 2), xb - xa, w)
+        rect.set(fc=hexes["line"], ec=hexes["ink"], lw=0.3, zorder=zorder)
+        ax.add_patch(rect)
+
+    for y in (-hw, -sw, sw, hw):
+        strip(-hl, y, hl, y)
+    for x in (-hl, hl):
+        strip(x, -hw, x, hw)
+    for x in (-court.SERVICE_LINE, court.SERVICE_LINE):
+        strip(x, -sw, x, sw)
+    strip(-court.SERVICE_LINE, 0.0, court.SERVICE_LINE, 0.0)
+    ax.plot([0, 0], [-court.POST_Y, court.POST_Y], color=hexes["net"], lw=2.0, zorder=zorder + 1)
+
+
+def landing_heatmaps(shots, summary):
+    """Where each player's rally balls land (2D histogram on the court, court frame), with
+    their serves' landings as dots; one panel per player."""
+    names = _players(summary)
+    fig = _figure((12.5, 5.4))
+    axes = fig.subplots(1, len(names), sharey=True)
+    hl = court.HALF_LENGTH
+    x_edges = np.arange(-hl - 3.5, hl + 3.5 + 1e-9, CELL_M)
+    y_edges = np.arange(-7.0, 7.0 + 1e-9, CELL_M)
+    landed = shots[np.isfinite(shots["land_x_m"])]
+    counts = {}
+    for name in names:
+        rb = landed[(landed["player"] == name) & (landed["serve"] == "")]
+        counts[name], _, _ = np.histogram2d(rb["land_x_m"], rb["land_y_m"], [x_edges, y_edges])
+    vmax = max(1.0, max(c.max() for c in counts.values()))
+    mesh = None
+    for ax_i, name in zip(np.atleast_1d(axes), names, strict=True):
+        ax_i.set_facecolor(palette.COURT_HEX["surround"])
+        ax_i.add_patch(
+            Rectangle(
+                (-hl, -court.DOUBLES_WIDTH / 2),
+                2 * hl,
+                court.DOUBLES_WIDTH,
+                fc=palette.COURT_HEX["surface"],
+                lw=0,
+                zorder=0,
+            )
+        )
+        c = np.ma.masked_equal(counts[name], 0.0)
+        mesh = ax_i.pcolormesh(
+            x_edges, y_edges, c.T, cmap=LANDING_CMAP, vmin=0, vmax=vmax, zorder=1
+        )
+        sv = landed[(landed["player"] == name) & (landed["serve"] != "")]
+        ax_i.scatter(
+            sv["land_x_m"],
+            sv["land_y_m"],
+            s=2,
+            color=palette.VARIANT_HEX[1],
+            alpha=0.35,
+            lw=0,
+            zorder=2,
+            rasterized=True,
+        )
+        _court(ax_i)
+        end = summary["players"][name]["end"]
+        toward = "far" if end == "near" else "near"
+        ax_i.set_title(
+            f"{name} ({end} end) hits toward the {toward} end: "
+            f"{int(counts[name].sum())} rally balls",
+            fontsize=10,
+        )
+        d = summary["depth"][name]
+        if d["landed"]:
+            z = d["zones"]
+            pct = {k: v / d["landed"] * 100 for k, v in z.items()}
+            txt = (
+                f"rally balls landing: deep (last 2.5 m) {pct['deep']:.0f} %, "
+                f"middle {pct['middle']:.0f} %, short {pct['short']:.0f} %, "
+                f"long {pct['long']:.0f} %"
+            )
+            ax_i.text(
+                0.5,
+                0.015,
+                txt,
+                transform=ax_i.transAxes,
+                ha="center",
+                va="bottom",
+                fontsize=8,
+                color=palette.COURT_HEX["ink"],
+                bbox={"fc": "white", "ec": "none", "alpha": 0.8, "pad": 2},
+            )
+        ax_i.set_xlim(x_edges[0], x_edges[-1])
+        ax_i.set_ylim(y_edges[0], y_edges[-1])
+        ax_i.set_aspect("equal")
+        ax_i.set_xlabel("x along the court [m] (net at 0)")
+    np.atleast_1d(axes)[0].set_ylabel("y across the court [m] (+ left seen from the near end)")
+    bar = fig.colorbar(mesh, ax=axes, shrink=0.8, pad=0.01)
+    bar.set_label(f"rally balls landing per {CELL_M:g} m x {CELL_M:g} m cell")
+    np.atleast_1d(axes)[-1].legend(
+        handles=[
+            Line2D([], [], ls="", marker="o", ms=4, color=palette.VARIANT_HEX[1], label="serves")
+        ],
+        loc="upper right",
+        fontsize=8,
+        framealpha=0.85,
+    )
+    fig.suptitle(f"{summary['patterns']}: where the balls land ({summary['rallies']} rallies)")
+    return fig
+
+
+def contact_height_histograms(shots, summary):
+    """Contact heights of each player's rally balls (serves excluded), stacked by when the ball
+    was met (rise, apex, drop), with the preferred range and the shoulder height."""
+    names = _players(summary)
+    fig = _figure((11.0, 5.2))
+    axes = np.atleast_1d(fig.subplots(1, len(names), sharey=True))
+    edges = np.asarray(summary["contact_height"][names[0]]["histogram"]["edges_m"], float)
+    rb = shots[shots["serve"] == ""]
+    for ax, name in zip(axes, names, strict=True):
+        mine = rb[rb["player"] == name]
+        info = summary["players"][name]
+        h = summary["contact_height"][name]
+        total = max(1, len(mine))
+        left = np.zeros(edges.size - 1)
+        for phase, colour in _PHASE_COLOURS.items():
+            part = mine[mine["contact_phase"] == phase]["contact_height_m"]
+            c, _ = np.histogram(part, bins=edges)
+            share = c / total * 100
+            ax.barh(
+                edges[:-1],
+                share,
+                height=np.diff(edges),
+                left=left,
+                align="edge",
+                color=colour,
+                ec="white",
+                lw=0.5,
+                label=f"met on the {phase}" if phase != "apex" else "met at the apex",
+            )
+            left += share
+        lo, hi = info["preferred_contact_height_m"]
+        ax.axhspan(lo, hi, color=palette.VARIANT_HEX[5], alpha=0.15, lw=0, zorder=0)
+        shoulder = info["shoulder_height_m"]
+        ax.axhline(shoulder, color=palette.VARIANT_HEX[3], lw=1.6, ls="--")
+        xmax = max(5.0, left.max() * 1.45)
+        ax.set_xlim(0, xmax)
+        ax.text(
+            xmax * 0.98,
+            shoulder + 0.03,
+            f"shoulder {shoulder:.2f} m",
+            ha="right",
+            va="bottom",
+            fontsize=8,
+            color=palette.VARIANT_HEX[3],
+        )
+        ax.text(
+            xmax * 0.98,
+            hi - 0.03,
+            f"preferred {lo:.2f}-{hi:.2f} m",
+            ha="right",
+            va="top",
+            fontsize=8,
+            color=palette.VARIANT_HEX[5],
+        )
+        share = h["above_shoulder_share"]
+        above = "-" if share is None else f"{share * 100:.1f} %"
+        ax.set_title(
+            f"{name}: {len(mine)} rally-ball contacts, above the shoulder {above}",
+            fontsize=10,
+        )
+        ax.set_xlabel("share of the player's contacts [%]")
+        ax.grid(axis="x", color="#dddddd", lw=0.6)
+        ax.set_axisbelow(True)
+    axes[0].set_ylabel("ball centre height at contact [m]")
+    axes[0].set_ylim(0, edges[-1])
+    axes[-1].legend(
+        handles=[
+            Patch(color=c, label=f"met {'at the' if p == 'apex' else 'on the'} {p}")
+            for p, c in _PHASE_COLOURS.items()
+        ]
+        + [
+            Patch(color=palette.VARIANT_HEX[5], alpha=0.3, label="preferred range"),
+            Line2D([], [], color=palette.VARIANT_HEX[3], ls="--", label="shoulder"),
+        ],
+        loc="upper right",
+        fontsize=8,
+        framealpha=0.9,
+    )
+    source = "; ".join(
+        f"{n}: shoulder {summary['players'][n]['shoulder_height_source']}" for n in names
+    )
+    fig.suptitle(f"{summary['patterns']}: contact heights\n{source}", fontsize=10)
+    return fig
+
+
+def spin_exchange(shots, summary):
+    """Incoming topspin at contact against the topspin the player sends back, rally balls
+    only, one panel per player, coloured by shot type."""
+    names = _players(summary)
+    fig = _figure((11.5, 5.4))
+    axes = np.atleast_1d(fig.subplots(1, len(names), sharex=True, sharey=True))
+    rb = shots[shots["serve"] == ""]
+    rng = np.random.default_rng(0)
+    lim_in = np.nanquantile(np.abs(rb["incoming_topspin_rpm"]), 0.995) if len(rb) else 1000.0
+    lim_out = np.nanquantile(np.abs(rb["outgoing_topspin_rpm"]), 0.995) if len(rb) else 1000.0
+    lim = float(max(lim_in, lim_out, 500.0)) * 1.08
+    colours = palette.variant_colours(rb["shot_type"])
+    for ax, name in zip(axes, names, strict=True):
+        mine = rb[rb["player"] == name]
+        shown = mine
+        if len(mine) > SPIN_POINTS:
+            shown = mine.iloc[np.sort(rng.choice(len(mine), SPIN_POINTS, replace=False))]
+        for label, g in shown.groupby("shot_type", sort=False):
+            ax.scatter(
+                g["incoming_topspin_rpm"],
+                g["outgoing_topspin_rpm"],
+                s=5,
+                alpha=0.45,
+                lw=0,
+                color=colours[label],
+                label=label,
+                rasterized=True,
+            )
+        ink = palette.COURT_HEX["ink"]
+        ax.axhline(0, color=ink, lw=0.7)
+        ax.axvline(0, color=ink, lw=0.7)
+        ax.plot([-lim, lim], [lim, -lim], color=ink, lw=1.0, ls=":", label="no spin added")
+        s = summary["spin_exchange"]["players"][name]
+        if s["shots"]:
+            ax.set_title(
+                f"{name}: mean in {s['incoming_topspin_rpm']['mean']:+.0f} rpm, out "
+                f"{s['outgoing_topspin_rpm']['mean']:+.0f} rpm\n"
+                f"spin sense reversed on {s['reversed_share'] * 100:.0f} % of "
+                f"{s['shots']} shots"
+                + (f" ({len(shown)} shown)" if len(shown) < len(mine) else ""),
+                fontsize=9.5,
+            )
+        ax.set_xlim(-lim, lim)
+        ax.set_ylim(-lim, lim)
+        ax.set_xlabel("incoming topspin at contact [rpm] (- backspin)")
+        ax.legend(loc="lower left", fontsize=8, markerscale=2.5, framealpha=0.9)
+        ax.grid(color="#e4e4e4", lw=0.6)
+        ax.set_axisbelow(True)
+    axes[0].set_ylabel("outgoing topspin off the racket [rpm] (- backspin)")
+    dom = summary["spin_exchange"]["dominant"]
+    fig.suptitle(
+        f"{summary['patterns']}: the spin exchange"
+        + (f" ({dom}'s balls reach the opponent with more topspin)" if dom else "")
+        + "\ntopspin relative to the ball's own travel; dotted: the racket adds no spin "
+        "(outgoing = - incoming)",
+        fontsize=10,
+    )
+    return fig
+
+
+def save_figure(fig, path, dpi=_DPI):
+    """Write a figure (format from the suffix) atomically; returns the path."""
+    path = Path(path)
+    fmt = path.suffix.lstrip(".").lower() or "png"
+    return atomic_write(path, lambda tmp: fig.savefig(tmp, format=fmt, dpi=dpi))
