@@ -216,7 +216,7 @@ def main(argv=None):
         (rate, land, _), peaks = _in_fresh_process(
             _batch_rows, args.big_n, multi, args.chunk, 1, k, COMPACT_COLUMNS, np.float32
         )
-        label = f"batch, {multi} proc., float32, 6 columns"
+        label = f"batch, {multi} proc., float32, {len(COMPACT_COLUMNS)} columns"
         _row(label, args.big_n, rate, _errors(land, ref_land), peaks, 1)
 
     n_top = max(args.sizes)

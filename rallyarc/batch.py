@@ -26,7 +26,7 @@ from rallyarc.units import KMH, RPM
 
 #: Shots per chunk: big enough to amortise numpy's per-call overhead, small enough for the
 #: working arrays to stay in cache (see DEVELOPERS.md, Throughput).
-DEFAULT_CHUNK = 10_000
+DEFAULT_CHUNK = 20_000
 
 #: A compact set of metrics for very large runs.
 COMPACT_COLUMNS = (
