@@ -125,7 +125,7 @@ def aerodynamic_acceleration(air_velocity, spin, params):
     k = params.drag_factor
     drag = -k * params.aero.drag(s) * np.sqrt(speed2)  # times v
     lift = k * params.radius * params.aero.lift_slope(s)  # times w x v
-    out = np.empty(np.broadcast_shapes(np.shape(air_velocity), np.shape(spin)))
+    out = np.empty((3,) + np.shape(cx))
     out[0] = drag * vx + lift * cx
     out[1] = drag * vy + lift * cy
     out[2] = drag * vz + lift * cz

@@ -269,6 +269,9 @@ def _horner(c, s):
     return value, slope
 
 
+_GRIDS = {}  # sample points of a step, by number of samples
+
+
 def _first_root(c, n_samples=8, iterations=6):
     """First root in (0, 1] where ``g`` goes from > 0 to <= 0, for every column.
 
@@ -276,7 +279,9 @@ def _first_root(c, n_samples=8, iterations=6):
     after a bounce) and comes back to it within one step is still caught; the bracket is then
     refined by safeguarded Newton iterations on the quintic. Returns ``(found, s)``.
     """
-    grid = np.linspace(0.0, 1.0, n_samples + 1)
+    grid = _GRIDS.get(n_samples)
+    if grid is None:
+        grid = _GRIDS[n_samples] = np.linspace(0.0, 1.0, n_samples + 1)
     values = _horner(c, grid[:, None])[0]  # (n_samples + 1, M) in one pass
     hit = (values[:-1] > 0) & (values[1:] <= 0)
     found = hit.any(axis=0)
