@@ -848,7 +848,13 @@ def _rows(
     top_in, side_in = topspin_sidespin(incoming.velocity, incoming.spin)
     serve = kind != ""
     hand = np.where(serve, "", contact_side(incoming.position[:, 1], pl))
+    # a ball that meets the net stops there: no landing (the chain's first flight passes the
+    # net plane and keeps the landing it would have had)
+    stopped = np.isin(m["outcome"], ("net", "miss"))
     land = np.stack([m["land_x_m"], m["land_y_m"]], axis=1) * flip[:2]
+    land[stopped] = np.nan
+    depth = np.where(stopped, np.nan, m["land_depth_m"])
+    side_margin = np.where(stopped, np.nan, m["land_side_margin_m"])
     n = a.size
     next_h = np.full(n, np.nan)
     next_t = np.full(n, np.nan)
@@ -892,8 +898,8 @@ def _rows(
         "net_clearance_m": m["net_clearance_m"],
         "land_x_m": land[:, 0],
         "land_y_m": land[:, 1],
-        "land_depth_m": m["land_depth_m"],
-        "land_side_margin_m": m["land_side_margin_m"],
+        "land_depth_m": depth,
+        "land_side_margin_m": side_margin,
         "bounce_apex_m": m["bounce_apex_m"],
         "outcome": m["outcome"].astype(str),
         "result": res_kind.astype(str),
@@ -945,7 +951,7 @@ def incoming_of(frame):
 #: Quantiles reported for distributions.
 QUANTILES = (0.1, 0.25, 0.5, 0.75, 0.9)
 #: Edges of the contact-height histogram [m].
-HEIGHT_EDGES_M = tuple(np.round(np.arange(0.0, 3.01, 0.25), 2))
+HEIGHT_EDGES_M = tuple(float(v) for v in np.round(np.arange(0.0, 3.001, 0.1), 2))
 #: Depth zones of a rally ball's landing, by distance inside the baseline [m] (common practice:
 #: "deep" is the last 2.5 m before the baseline; "short" is inside the service line).
 DEPTH_ZONES = (("long", -np.inf, 0.0), ("deep", 0.0, 2.5), ("middle", 2.5, 5.485))

@@ -27,10 +27,6 @@ SPIN_POINTS = 4000
 #: Landing heatmap cell [m].
 CELL_M = 0.5
 
-LANDING_CMAP = LinearSegmentedColormap.from_list(
-    "rallyarc_landings",
-    [palette.COURT_HEX["surface"], palette.VARIANT_HEX[2], palette.VARIANT_HEX[0]],
-)
 _PHASE_COLOURS = {
     "rise": palette.VARIANT_HEX[1],
     "apex": palette.VARIANT_HEX[4],
@@ -72,92 +68,113 @@ def _court(ax, zorder=3):
     ax.plot([0, 0], [-court.POST_Y, court.POST_Y], color=hexes["net"], lw=2.0, zorder=zorder + 1)
 
 
+def _tint(hex_colour, amount):
+    """A palette colour mixed with white (``amount`` 0: the colour, 1: white)."""
+    rgb = palette.hex_to_rgb(hex_colour)
+    return tuple(rgb + (1.0 - rgb) * amount)
+
+
+LANDING_CMAP = LinearSegmentedColormap.from_list(
+    "rallyarc_landings",
+    [_tint(palette.VARIANT_HEX[2], 0.8), palette.VARIANT_HEX[2], palette.VARIANT_HEX[0]],
+)
+
+
+def _court_ground(ax, x_edges, y_edges):
+    hl = court.HALF_LENGTH
+    ax.set_facecolor(palette.COURT_HEX["surround"])
+    ax.add_patch(
+        Rectangle(
+            (-hl, -court.DOUBLES_WIDTH / 2),
+            2 * hl,
+            court.DOUBLES_WIDTH,
+            fc=palette.COURT_HEX["surface"],
+            lw=0,
+            zorder=0,
+        )
+    )
+    ax.set_xlim(x_edges[0], x_edges[-1])
+    ax.set_ylim(y_edges[0], y_edges[-1])
+    ax.set_aspect("equal")
+
+
+def _note(ax, text):
+    ax.text(
+        0.5,
+        0.015,
+        text,
+        transform=ax.transAxes,
+        ha="center",
+        va="bottom",
+        fontsize=8,
+        color=palette.COURT_HEX["ink"],
+        bbox={"fc": "white", "ec": "none", "alpha": 0.85, "pad": 2},
+        zorder=6,
+    )
+
+
 def landing_heatmaps(shots, summary):
-    """Where each player's rally balls land (2D histogram on the court, court frame), with
-    their serves' landings as dots; one panel per player."""
+    """Where each player's balls land (2D histograms on the court, court frame): rally balls
+    in the top row, serves in the bottom row; one column per player."""
     names = _players(summary)
-    fig = _figure((12.5, 5.4))
-    axes = fig.subplots(1, len(names), sharey=True)
+    fig = _figure((12.5, 8.6))
+    axes = fig.subplots(2, len(names), sharex=True, sharey=True, squeeze=False)
     hl = court.HALF_LENGTH
     x_edges = np.arange(-hl - 3.5, hl + 3.5 + 1e-9, CELL_M)
     y_edges = np.arange(-7.0, 7.0 + 1e-9, CELL_M)
     landed = shots[np.isfinite(shots["land_x_m"])]
-    counts = {}
-    for name in names:
-        rb = landed[(landed["player"] == name) & (landed["serve"] == "")]
-        counts[name], _, _ = np.histogram2d(rb["land_x_m"], rb["land_y_m"], [x_edges, y_edges])
-    vmax = max(1.0, max(c.max() for c in counts.values()))
-    mesh = None
-    for ax_i, name in zip(np.atleast_1d(axes), names, strict=True):
-        ax_i.set_facecolor(palette.COURT_HEX["surround"])
-        ax_i.add_patch(
-            Rectangle(
-                (-hl, -court.DOUBLES_WIDTH / 2),
-                2 * hl,
-                court.DOUBLES_WIDTH,
-                fc=palette.COURT_HEX["surface"],
-                lw=0,
-                zorder=0,
+    for row, (what, serve) in enumerate((("rally balls", False), ("serves", True))):
+        counts = {}
+        for name in names:
+            mine = landed[(landed["player"] == name) & ((landed["serve"] != "") == serve)]
+            counts[name], _, _ = np.histogram2d(
+                mine["land_x_m"], mine["land_y_m"], [x_edges, y_edges]
             )
-        )
-        c = np.ma.masked_equal(counts[name], 0.0)
-        mesh = ax_i.pcolormesh(
-            x_edges, y_edges, c.T, cmap=LANDING_CMAP, vmin=0, vmax=vmax, zorder=1
-        )
-        sv = landed[(landed["player"] == name) & (landed["serve"] != "")]
-        ax_i.scatter(
-            sv["land_x_m"],
-            sv["land_y_m"],
-            s=2,
-            color=palette.VARIANT_HEX[1],
-            alpha=0.35,
-            lw=0,
-            zorder=2,
-            rasterized=True,
-        )
-        _court(ax_i)
-        end = summary["players"][name]["end"]
-        toward = "far" if end == "near" else "near"
-        ax_i.set_title(
-            f"{name} ({end} end) hits toward the {toward} end: "
-            f"{int(counts[name].sum())} rally balls",
-            fontsize=10,
-        )
-        d = summary["depth"][name]
-        if d["landed"]:
-            z = d["zones"]
-            pct = {k: v / d["landed"] * 100 for k, v in z.items()}
-            txt = (
-                f"rally balls landing: deep (last 2.5 m) {pct['deep']:.0f} %, "
-                f"middle {pct['middle']:.0f} %, short {pct['short']:.0f} %, "
-                f"long {pct['long']:.0f} %"
+        vmax = max(1.0, max(c.max() for c in counts.values()))
+        mesh = None
+        for col, name in enumerate(names):
+            ax = axes[row, col]
+            _court_ground(ax, x_edges, y_edges)
+            c = np.ma.masked_equal(counts[name], 0.0)
+            mesh = ax.pcolormesh(
+                x_edges, y_edges, c.T, cmap=LANDING_CMAP, vmin=0, vmax=vmax, zorder=1
             )
-            ax_i.text(
-                0.5,
-                0.015,
-                txt,
-                transform=ax_i.transAxes,
-                ha="center",
-                va="bottom",
-                fontsize=8,
-                color=palette.COURT_HEX["ink"],
-                bbox={"fc": "white", "ec": "none", "alpha": 0.8, "pad": 2},
+            _court(ax)
+            end = summary["players"][name]["end"]
+            toward = "far" if end == "near" else "near"
+            ax.set_title(
+                f"{name} ({end} end, hitting toward the {toward} end): "
+                f"{int(counts[name].sum())} {what} landed",
+                fontsize=9.5,
             )
-        ax_i.set_xlim(x_edges[0], x_edges[-1])
-        ax_i.set_ylim(y_edges[0], y_edges[-1])
-        ax_i.set_aspect("equal")
-        ax_i.set_xlabel("x along the court [m] (net at 0)")
-    np.atleast_1d(axes)[0].set_ylabel("y across the court [m] (+ left seen from the near end)")
-    bar = fig.colorbar(mesh, ax=axes, shrink=0.8, pad=0.01)
-    bar.set_label(f"rally balls landing per {CELL_M:g} m x {CELL_M:g} m cell")
-    np.atleast_1d(axes)[-1].legend(
-        handles=[
-            Line2D([], [], ls="", marker="o", ms=4, color=palette.VARIANT_HEX[1], label="serves")
-        ],
-        loc="upper right",
-        fontsize=8,
-        framealpha=0.85,
-    )
+            mine = shots[(shots["player"] == name) & ((shots["serve"] != "") == serve)]
+            if serve:
+                if len(mine):
+                    first = mine[mine["serve"] == "first"]
+                    second = mine[mine["serve"] == "second"]
+                    _note(
+                        ax,
+                        f"in the box: first serves {first['outcome'].eq('in').mean() * 100:.0f} "
+                        f"%, second serves {second['outcome'].eq('in').mean() * 100:.0f} %"
+                        if len(second)
+                        else f"first serves in the box {first['outcome'].eq('in').mean():.0%}",
+                    )
+            else:
+                d = summary["depth"][name]
+                if d["landed"]:
+                    pct = {k: v / d["landed"] * 100 for k, v in d["zones"].items()}
+                    _note(
+                        ax,
+                        f"landed: deep (last 2.5 m) {pct['deep']:.0f} %, middle "
+                        f"{pct['middle']:.0f} %, short of the service line {pct['short']:.0f} "
+                        f"%, long {pct['long']:.0f} %",
+                    )
+            if row == 1:
+                ax.set_xlabel("x along the court [m] (net at 0)")
+            if col == 0:
+                ax.set_ylabel("y across [m] (+ left seen from the near end)")
+        bar = fig.colorbar(mesh, ax=axes[row, :], shrink=0.9, pad=0.01)
+        bar.set_label(f"{what} per {CELL_M:g} m x {CELL_M:g} m cell")
     fig.suptitle(f"{summary['patterns']}: where the balls land ({summary['rallies']} rallies)")
     return fig
 
@@ -226,7 +243,11 @@ def contact_height_histograms(shots, summary):
         ax.grid(axis="x", color="#dddddd", lw=0.6)
         ax.set_axisbelow(True)
     axes[0].set_ylabel("ball centre height at contact [m]")
-    axes[0].set_ylim(0, edges[-1])
+    top = max(
+        max(summary["players"][n]["shoulder_height_m"] for n in names) + 0.6,
+        float(np.nanmax(rb["contact_height_m"])) + 0.15 if len(rb) else 0.0,
+    )
+    axes[0].set_ylim(0, min(edges[-1], top))
     axes[-1].legend(
         handles=[
             Patch(color=c, label=f"met {'at the' if p == 'apex' else 'on the'} {p}")
