@@ -7,6 +7,7 @@ Registered on the main group by :mod:`rallyarc.cli`; the command only parses opt
 from __future__ import annotations
 
 import json
+import os
 import sys
 from pathlib import Path
 
@@ -51,9 +52,15 @@ def register(group):
     )
     @click.option("--out", "out_dir", default=None, help="Write tables, summary and figures here.")
     @click.option("--force", is_flag=True, help="Overwrite existing files in --out.")
+    @click.option(
+        "--workers",
+        default="auto",
+        show_default=True,
+        help="Processes (1 to 64, or auto: one per core); the tables do not depend on it.",
+    )
     @click.option("--quiet", is_flag=True, help="No progress bar.")
     @click.option("--json", "as_json", is_flag=True, help="Print the summary as JSON.")
-    def rally(patterns, rallies, seed, max_shots, out_dir, force, quiet, as_json):
+    def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as_json):
         """Play a pattern pair (a preset name or a TOML file) over many rallies with execution
         scatter: per-shot table, summary and figures."""
         from rallyarc import export
@@ -62,6 +69,10 @@ def register(group):
         n = _whole(rallies, "--rallies", 1, MAX_RALLIES)
         s = _whole(seed, "--seed", 0, 2**32 - 1)
         limit = None if max_shots is None else _whole(max_shots, "--max-shots", 1, 200)
+        if workers == "auto":
+            procs = os.cpu_count() or 1
+        else:
+            procs = _whole(workers, "--workers", 1, 64)
         pat = load_patterns(patterns)
         folder = None
         if out_dir is not None:
@@ -70,7 +81,7 @@ def register(group):
                 raise InputError(f"--out: {folder} is a file, not a folder")
             export.check_targets([folder / name for name in OUTPUTS], force)
         progress = not quiet and not as_json and sys.stderr.isatty()
-        run = play_rallies(pat, n=n, seed=s, max_shots=limit, progress=progress)
+        run = play_rallies(pat, n=n, seed=s, max_shots=limit, progress=progress, workers=procs)
         summary = summarize(run)
         lines = summary_lines(summary)
         if folder is not None:

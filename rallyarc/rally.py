@@ -561,7 +561,15 @@ def _direction_sign(entry, contact_y, receiver):
     return np.ones(contact_y.shape)
 
 
-def play_rallies(patterns, n=10_000, seed=0, max_shots=None, progress=False):
+#: Rallies simulated together in one batch; a run of more rallies is split into blocks of
+#: this size, each with its own random stream from the seed, so that the tables do not depend
+#: on how many processes play the blocks.
+BLOCK = 5000
+
+
+def play_rallies(
+    patterns, n=10_000, seed=0, max_shots=None, progress=False, workers=1, block=BLOCK
+):
     """Play ``n`` rallies of a pattern pair, all live rallies advancing shot by shot together.
 
     Parameters
@@ -571,12 +579,17 @@ def play_rallies(patterns, n=10_000, seed=0, max_shots=None, progress=False):
         Rallies.
     seed : int
         Seed of the random numbers (shot choice, aim points, scatter); the same seed gives the
-        same tables.
+        same tables, whatever ``workers`` is.
     max_shots : int, optional
         Longest rally in shots (a faulted first serve counts as a shot); the pattern file's
         ``max_shots`` by default. A rally still going then is ``unfinished``.
     progress : bool
         Show a tqdm progress bar of finished rallies.
+    workers : int
+        Processes playing the blocks at once (at most one per block).
+    block : int
+        Rallies per block (:data:`BLOCK`); each block has its own random stream, spawned from
+        the seed, so the tables depend on the seed and the block size only.
 
     Returns
     -------
@@ -586,9 +599,56 @@ def play_rallies(patterns, n=10_000, seed=0, max_shots=None, progress=False):
     from tqdm import tqdm
 
     limit = int(patterns.max_shots if max_shots is None else max_shots)
-    rng = np.random.default_rng(seed)
+    starts = list(range(0, n, int(block)))
+    streams = np.random.SeedSequence(seed).spawn(len(starts))
+    jobs = [(s, min(int(block), n - s), q) for s, q in zip(starts, streams, strict=True)]
+    bar = tqdm(total=n, desc="rallies", unit="rally", disable=not progress, leave=False)
+    workers = max(1, min(int(workers), len(jobs)))
+    if workers == 1:
+        parts = [_play_block(patterns, s, m, q, limit, bar.update) for s, m, q in jobs]
+    else:
+        parts = _play_parallel(patterns, jobs, limit, workers, bar)
+    bar.close()
+    shots = pd.concat([p[0] for p in parts], ignore_index=True)
+    rallies = pd.concat([p[1] for p in parts], ignore_index=True)
+    return RallyRun(patterns, shots, rallies, int(seed), int(n), limit)
+
+
+def _play_parallel(patterns, jobs, limit, workers, bar):
+    """Blocks in worker processes; finished rallies are reported through a queue."""
+    import multiprocessing
+    import queue as queue_mod
+    from concurrent.futures import ProcessPoolExecutor
+
+    ctx = multiprocessing.get_context("fork")
+    with ctx.Manager() as manager:
+        done = manager.Queue()
+        with ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
+            futures = [
+                pool.submit(_play_block_reporting, patterns, s, m, q, limit, done)
+                for s, m, q in jobs
+            ]
+            while not all(f.done() for f in futures):
+                try:
+                    bar.update(done.get(timeout=0.2))
+                except queue_mod.Empty:
+                    pass
+            while not done.empty():
+                bar.update(done.get())
+            return [f.result() for f in futures]
+
+
+def _play_block_reporting(patterns, start, n, stream, limit, done):
+    return _play_block(patterns, start, n, stream, limit, done.put)
+
+
+def _play_block(patterns, start, n, stream, limit, report):
+    """Rallies ``start`` to ``start + n - 1``, one batch; returns (shots, rallies) frames."""
+    import pandas as pd
+
+    rng = np.random.default_rng(stream)
     players = patterns.players
-    rally = np.arange(n)
+    rally = start + np.arange(n)
     if patterns.server == "alternate":
         hitter = rally % 2
     else:
@@ -605,7 +665,6 @@ def play_rallies(patterns, n=10_000, seed=0, max_shots=None, progress=False):
     ending = np.full(n, "", dtype=object)
     winner = np.full(n, -1)
     rows = []
-    bar = tqdm(total=n, desc="rallies", unit="rally", disable=not progress, leave=False)
     while live.any():
         act = np.flatnonzero(live)
         m_act = act.size
@@ -797,10 +856,11 @@ def play_rallies(patterns, n=10_000, seed=0, max_shots=None, progress=False):
             who = np.array([ENDINGS[r] for r in res_kind[done]], dtype=object)
             winner[ends] = np.where(who == "hitter", e, np.where(who == "receiver", 1 - e, -1))
             live[ends] = False
-            bar.update(int(done.sum()))
+            if done.any():
+                report(int(done.sum()))
         rows.extend(round_rows)
-    bar.close()
     shots = pd.concat([pd.DataFrame(r) for r in rows], ignore_index=True)
+    shots["rally"] += start
     shots = shots.sort_values(["rally", "shot"], kind="stable").reset_index(drop=True)
     previous = shots.groupby("rally")["shot_type"].shift(1)
     shots.insert(7, "replying_to", np.where(shots["serve"] == "", previous.fillna(""), ""))
@@ -816,7 +876,7 @@ def play_rallies(patterns, n=10_000, seed=0, max_shots=None, progress=False):
             "winner": np.where(winner >= 0, names[np.maximum(winner, 0)], ""),
         }
     )
-    return RallyRun(patterns, shots, rallies, int(seed), int(n), limit)
+    return shots, rallies
 
 
 def _rows(

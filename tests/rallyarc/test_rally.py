@@ -222,6 +222,16 @@ def test_same_seed_same_table_and_another_seed_differs(write_patterns):
     )
 
 
+def test_blocks_give_the_same_tables_in_one_process_or_two(write_patterns):
+    pat = load_patterns(write_patterns(pattern_text((3.0, 1.0, 2.0, 0.5), zone=True)))
+    one = play_rallies(pat, n=12, seed=4, max_shots=3, block=6)
+    two = play_rallies(pat, n=12, seed=4, max_shots=3, block=6, workers=2)
+    pd.testing.assert_frame_equal(one.shots, two.shots)
+    pd.testing.assert_frame_equal(one.rallies, two.rallies)
+    assert sorted(one.rallies["rally"]) == list(range(12))
+    assert set(one.shots["rally"]) == set(range(12))
+
+
 def test_errors_rise_with_scatter(write_patterns):
     # Statistical check, fixed seed: the share of shots that do not land in (errors and faults)
     # with twice the scatter exceeds that with half of it; one-sided two-proportion z-test
@@ -414,6 +424,7 @@ def test_cli_writes_outputs_and_refuses_to_overwrite(write_patterns, tmp_path):
         (["--rallies", "many"], ["--rallies", "whole number"]),
         (["--seed", "-1"], ["--seed", "0 to"]),
         (["--max-shots", "500"], ["--max-shots", "1 to 200"]),
+        (["--workers", "0"], ["--workers", "1 to 64"]),
     ],
 )
 def test_cli_option_errors_are_one_line(args, words):
