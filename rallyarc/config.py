@@ -213,6 +213,7 @@ SCHEMAS = {
                             "face_tilt_deg": Key(float, 0.0, 15.0),
                             "swing_path_deg": Key(float, 0.0, 20.0),
                             "aim_m": Key(float, 0.0, 5.0),
+                            "outside_range_per_m": Key(float, 0.0, 20.0, required=False),
                         },
                     ),
                     "serves": Key(

@@ -20,7 +20,8 @@ One shot.
    probability when the ball meets them; the rest is shared by the shots without conditions in
    proportion to their probabilities (:func:`shot_weights`).
 2. The aim point is drawn uniformly in the shot's target zone, then displaced by the aim scatter
-   (normal, SD ``aim_m`` along and across the court).
+   (normal, SD ``aim_m`` along and across the court). Every scatter SD grows by the factor
+   :func:`scatter_factor` when the ball is met outside the preferred contact heights.
 3. :func:`rallyarc.aim.aim_stroke` solves the swing for every live rally at once (one call per
    player and shot type); the solved swing is then perturbed by the head-speed, face-tilt and
    swing-path scatter (normal) and played with :func:`rallyarc.shot.simulate`.
@@ -278,6 +279,7 @@ def _player(data, end, base, where):
             "face_tilt": math.radians(sd["face_tilt_deg"]),
             "swing_path": math.radians(sd["swing_path_deg"]),
             "aim": sd["aim_m"],
+            "outside_range_per_m": sd.get("outside_range_per_m", 0.0),
         },
         first_serves=first,
         second_serves=second,
@@ -321,8 +323,10 @@ def load_patterns(name_or_path):
 
 def with_scatter(patterns, factor):
     """The same patterns with every execution scatter SD multiplied by ``factor``."""
+    sds = ("head_speed", "face_tilt", "swing_path", "aim")
     players = tuple(
-        replace(p, scatter={k: v * factor for k, v in p.scatter.items()}) for p in patterns.players
+        replace(p, scatter={k: v * factor if k in sds else v for k, v in p.scatter.items()})
+        for p in patterns.players
     )
     return replace(patterns, players=players)
 
@@ -530,6 +534,18 @@ def _eligible(entry, height, side, topspin):
     return ok
 
 
+def scatter_factor(player, height, serve):
+    """The factor on a player's scatter SDs for contacts at ``height`` [m]: 1 inside the
+    preferred range (and for serves), growing by ``outside_range_per_m`` per metre outside it.
+
+    A modelling assumption of the pattern file (common practice: a ball met away from the
+    preferred height is controlled less well), not a result of the physics.
+    """
+    lo, hi = player.contact_band
+    outside = np.maximum(0.0, np.maximum(lo - height, height - hi))
+    return np.where(serve, 1.0, 1.0 + player.scatter["outside_range_per_m"] * outside)
+
+
 def shot_weights(shots, height, side, topspin):
     """Probabilities ``(N, k)`` of a repertoire's shots against N incoming balls.
 
@@ -732,8 +748,9 @@ def _play_block(patterns, start, n, stream, limit, report):
                     sign = _direction_sign(s, pos[a[k], 1], opp)
                 tx[k], ty[k] = x, sign * y
             intended = np.stack([tx, ty], axis=1)
-            tx = tx + pl.scatter["aim"] * z_aim[mine, 0]
-            ty = ty + pl.scatter["aim"] * z_aim[mine, 1]
+            grow = scatter_factor(pl, pos[a, 2], is_serve)
+            tx = tx + grow * pl.scatter["aim"] * z_aim[mine, 0]
+            ty = ty + grow * pl.scatter["aim"] * z_aim[mine, 1]
             plans[e] = {
                 "mine": mine,
                 "a": a,
@@ -743,6 +760,7 @@ def _play_block(patterns, start, n, stream, limit, report):
                 "intended": intended,
                 "tx": tx,
                 "ty": ty,
+                "grow": grow,
                 "fields": {f: np.zeros(a.size) for f in Swing.FIELDS},
                 "reachable": np.zeros(a.size, bool),
             }
@@ -781,7 +799,7 @@ def _play_block(patterns, start, n, stream, limit, report):
             intended, tx, ty = plan["intended"], plan["tx"], plan["ty"]
             fields, reachable = plan["fields"], plan["reachable"]
             # execution scatter on the solved swing
-            zs = z_swing[mine]
+            zs = z_swing[mine] * plan["grow"][:, None]
             fields["head_speed"] = np.maximum(
                 fields["head_speed"] + pl.scatter["head_speed"] * zs[:, 0], 1.0
             )

@@ -24,6 +24,7 @@ from rallyarc.rally import (
     incoming_of,
     load_patterns,
     play_rallies,
+    scatter_factor,
     summarize,
     swing_of,
     to_other_end,
@@ -230,6 +231,16 @@ def test_blocks_give_the_same_tables_in_one_process_or_two(write_patterns):
     pd.testing.assert_frame_equal(one.rallies, two.rallies)
     assert sorted(one.rallies["rally"]) == list(range(12))
     assert set(one.shots["rally"]) == set(range(12))
+
+
+def test_scatter_grows_only_outside_the_preferred_heights():
+    p = load_patterns("demo_match").players[1]
+    lo, hi = p.contact_band
+    k = p.scatter["outside_range_per_m"]
+    h = np.array([lo, 0.5 * (lo + hi), hi, hi + 0.3, lo - 0.2, hi + 0.3])
+    serve = np.array([False] * 5 + [True])
+    expected = [1.0, 1.0, 1.0, 1.0 + k * 0.3, 1.0 + k * 0.2, 1.0]
+    np.testing.assert_allclose(scatter_factor(p, h, serve), expected)
 
 
 def test_errors_rise_with_scatter(write_patterns):
