@@ -285,21 +285,28 @@ def spin_exchange(shots, summary):
         shown = mine
         if len(mine) > SPIN_POINTS:
             shown = mine.iloc[np.sort(rng.choice(len(mine), SPIN_POINTS, replace=False))]
-        for label, g in shown.groupby("shot_type", sort=False):
-            ax.scatter(
-                g["incoming_topspin_rpm"],
-                g["outgoing_topspin_rpm"],
-                s=5,
-                alpha=0.45,
-                lw=0,
-                color=colours[label],
-                label=label,
-                rasterized=True,
-            )
+        # all shot types in one shuffled layer, so that no type hides another
+        order = rng.permutation(len(shown))
+        shown = shown.iloc[order]
+        ax.scatter(
+            shown["incoming_topspin_rpm"],
+            shown["outgoing_topspin_rpm"],
+            s=5,
+            alpha=0.45,
+            lw=0,
+            c=[colours[t] for t in shown["shot_type"]],
+            rasterized=True,
+        )
+        handles = [
+            Line2D([], [], ls="", marker="o", ms=5, color=colours[t], label=t)
+            for t in dict.fromkeys(mine["shot_type"])
+        ]
         ink = palette.COURT_HEX["ink"]
         ax.axhline(0, color=ink, lw=0.7)
         ax.axvline(0, color=ink, lw=0.7)
-        ax.plot([-lim, lim], [lim, -lim], color=ink, lw=1.0, ls=":", label="no spin added")
+        (diag,) = ax.plot([-lim, lim], [lim, -lim], color=ink, lw=1.0, ls=":")
+        diag.set_label("no spin added")
+        handles.append(diag)
         s = summary["spin_exchange"]["players"][name]
         if s["shots"]:
             ax.set_title(
@@ -313,7 +320,7 @@ def spin_exchange(shots, summary):
         ax.set_xlim(-lim, lim)
         ax.set_ylim(-lim, lim)
         ax.set_xlabel("incoming topspin at contact [rpm] (- backspin)")
-        ax.legend(loc="lower left", fontsize=8, markerscale=2.5, framealpha=0.9)
+        ax.legend(handles=handles, loc="lower left", fontsize=8, framealpha=0.9)
         ax.grid(color="#e4e4e4", lw=0.6)
         ax.set_axisbelow(True)
     axes[0].set_ylabel("outgoing topspin off the racket [rpm] (- backspin)")
