@@ -1196,7 +1196,20 @@ def summarize(run):
             "relative to the ball's travel) is opposite to the incoming ball's"
         ),
     }
-    return summary
+    return _json_ready(summary)
+
+
+def _json_ready(value):
+    """Numbers that JSON can hold: NaN and infinities become None, numpy scalars plain."""
+    if isinstance(value, dict):
+        return {k: _json_ready(v) for k, v in value.items()}
+    if isinstance(value, list | tuple):
+        return [_json_ready(v) for v in value]
+    if isinstance(value, np.generic):
+        value = value.item()
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
+    return value
 
 
 def _mean(values):
