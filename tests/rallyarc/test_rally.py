@@ -25,6 +25,7 @@ from rallyarc.rally import (
     load_patterns,
     play_rallies,
     scatter_factor,
+    shot_weights,
     summarize,
     swing_of,
     to_other_end,
@@ -231,6 +232,31 @@ def test_blocks_give_the_same_tables_in_one_process_or_two(write_patterns):
     pd.testing.assert_frame_equal(one.rallies, two.rallies)
     assert sorted(one.rallies["rally"]) == list(range(12))
     assert set(one.shots["rally"]) == set(range(12))
+
+
+def test_conditional_shots_take_their_probability_only_when_the_ball_meets_them(write_patterns):
+    extra = """
+[[far.shots]]
+label = "high slice"
+stroke = "slice"
+probability = 1.0
+target_x_m = [8.0, 8.0]
+target_y_m = [0.0, 0.0]
+when_height_above_m = 1.0
+"""
+    pat = load_patterns(write_patterns(pattern_text(server="near", extra_far=extra)))
+    far = pat.players[1]
+    h = np.array([0.9, 1.1, 1.5])
+    w = shot_weights(far.shots, h, np.array(["forehand"] * 3), np.zeros(3))
+    np.testing.assert_allclose(w, [[1.0, 0.0], [0.0, 1.0], [0.0, 1.0]])
+    run = play_rallies(pat, n=6, seed=3, max_shots=6)
+    assert set(run.rallies["server"]) == {"Ada Test"}
+    rows = run.shots[(run.shots["player"] == "Bo Test") & (run.shots["serve"] == "")]
+    assert len(rows) > 0
+    high = rows["contact_height_m"] > 1.0
+    assert high.any() and (~high).any()
+    assert (rows.loc[high, "shot_type"] == "high slice").all()
+    assert (rows.loc[~high, "shot_type"] == "topspin crosscourt").all()
 
 
 def test_scatter_grows_only_outside_the_preferred_heights():
