@@ -359,9 +359,10 @@ def contact_side(y, player):
 
 @dataclass
 class Contact:
-    """Where receivers meet N balls, in the hitter's chain frame (index ``i`` of the balls
-    that landed in): ``found`` (N,) bool, ``t`` [s] after the hitter's contact, state arrays,
-    ``reason`` (why none was found)."""
+    """Where receivers meet N balls that landed in, in the hitter's chain frame: ``found``
+    (N,) bool, ``t`` [s] after the hitter's contact, the ball's position [m], velocity [m/s]
+    and spin [rad/s] there ``(N, 3)``, the timing's target time ``target_t`` [s], ``reason``
+    (why no point was within reach) and ``phase`` (rise, apex or drop)."""
 
     found: np.ndarray
     t: np.ndarray
@@ -462,6 +463,7 @@ def meet(result, balls, receiver):
     grid = t_b[None, :] + frac * (t_e - t_b)[None, :]
     times = np.concatenate([grid, target[None, :]])
     pos, _, _ = sample(times)
+    grid_pos = pos[:-1]
     ok = feasible(times, pos)
     at_target = ok[-1]
     gap = np.where(ok[:-1], np.abs(grid - target[None, :]), np.inf)
@@ -486,7 +488,7 @@ def meet(result, balls, receiver):
         t_c[r] = _bisect(ok_at, t_c[r].copy(), t_nb[r].copy(), iterations=20)
 
     pos, vel, spin = (a[0] for a in sample(t_c[None, :]))
-    h, d, mv = feasible_parts(grid, sample(grid)[0])
+    h, d, mv = feasible_parts(grid, grid_pos)
     reason = np.full(n, "", dtype=object)
     none = ~found
     reason[none & (d & mv).any(axis=0)] = "out of height range"
