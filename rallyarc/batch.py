@@ -255,8 +255,11 @@ def run_batch(
     if workers < 1:
         raise ValueError("workers must be at least 1")
     columns = None if columns is None else list(columns)
-    if workers > 1:
-        chunk = max(1, min(chunk, -(-n // workers)))  # every worker gets part of a short run
+    if workers > 1 and n:
+        # a whole number of chunks per worker, none larger than asked: no worker idles at the end
+        pieces = -(-n // chunk)
+        pieces = -(-pieces // workers) * workers
+        chunk = -(-n // pieces)
     bounds = [(i, min(i + chunk, n)) for i in range(0, n, chunk)]
     out = {}
     done = 0
