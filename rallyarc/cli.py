@@ -540,6 +540,13 @@ _PRESET_FIGURES = {
         f"{d['swing_path_deg']:+.0f} deg, face {d['face_tilt_deg']:+.1f} deg"
     ),
     "scenarios": lambda d: f"{d['player']} at {d['club']}: " + ", ".join(d["strokes"]),
+    "machines": lambda d: (
+        f"{d['speed_min_kmh']:.0f}-{d['speed_max_kmh']:.0f} km/h, spin up to "
+        f"{d['spin_max_rpm']:.0f} rpm, elevation {d['elevation_min_deg']:+.0f} to "
+        f"{d['elevation_max_deg']:+.0f} deg, release {d['release_height_m']:.2f} m"
+    ),
+    "drills": lambda d: f"{d['coach']} at {d['club']}: {len(d['balls'])} ball(s), {d['machine']}",
+    "patterns": lambda d: f"{d['near']['name']} against {d['far']['name']} at {d['club']}",
 }
 
 
@@ -547,8 +554,8 @@ _PRESET_FIGURES = {
 @click.argument("kind", required=False)
 @click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
 def presets(kind, as_json):
-    """The built-in presets of each KIND (balls, surfaces, rackets, air, strokes, scenarios)
-    with their key figures and sources."""
+    """The built-in presets of each KIND (balls, surfaces, rackets, air, strokes, scenarios,
+    machines, drills, patterns) with their key figures and sources."""
     kinds = list(_PRESET_FIGURES)
     if kind is not None and kind not in kinds:
         raise InputError(f"KIND: unknown preset kind {kind!r}; choose one of " + ", ".join(kinds))

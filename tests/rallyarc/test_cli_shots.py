@@ -95,7 +95,11 @@ def test_compare_serve_scenario_judges_the_service_box():
 def test_presets_list_every_kind_with_sources():
     result = run("presets")
     assert result.exit_code == 0
-    for kind in ("balls", "surfaces", "rackets", "air", "strokes", "scenarios"):
+    from rallyarc import config
+
+    assert set(config.SCHEMAS) == {"balls", "surfaces", "rackets", "air", "strokes", "scenarios",
+                                   "machines", "drills", "patterns"}  # fmt: skip
+    for kind in config.SCHEMAS:  # every kind of preset the program reads is listed
         assert f"{kind}:" in result.output
     data = json.loads(run("presets", "rackets", "--json").output)
     assert set(data["rackets"]) == {"light", "standard", "heavy"}
