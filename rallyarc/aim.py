@@ -69,45 +69,54 @@ def _solve(evaluate, p0, lo, hi, scale, iterations=30):
     """Damped Gauss-Newton (Levenberg-Marquardt) on N independent square systems
     ``evaluate(P) = 0``, with the parameters kept inside ``[lo, hi]``.
 
-    ``evaluate`` takes parameters ``(M, k)`` and returns residuals ``(M, k)`` already divided by
-    their tolerances, so a point is solved when the sum of squares is at most 1. Each iteration
-    evaluates the trial points and their k forward perturbations in one stacked call, so all
-    targets and perturbations fly together. Returns ``(p, solved, iterations)``.
+    ``evaluate(P, idx)`` takes parameters ``P`` of the points ``idx`` (indices into the N
+    systems), possibly stacked several times (``P`` has ``r * len(idx)`` rows, block after
+    block), and returns residuals of the same shape already divided by their tolerances, so a
+    point is solved when the sum of squares is at most 1. Each iteration evaluates the trial
+    points of the systems still open and their k forward perturbations in one stacked call, so
+    they all fly together; a solved system, or one whose damping has grown past any useful step,
+    is left alone. Returns ``(p, solved, iterations)``.
     """
     p = np.clip(np.array(p0, float), lo, hi)
     n, k = p.shape
     h = 1e-4 * scale
 
-    def residual_and_jacobian(q):
+    def residual_and_jacobian(q, idx):
         # perturb downward at the upper bound so that every perturbed point stays in range
+        m = len(idx)
         dirs = np.where(q + h >= hi, -1.0, 1.0)
         stack = [q] + [q + np.eye(k)[j] * (h * dirs) for j in range(k)]
-        res = evaluate(np.concatenate(stack)).reshape(k + 1, n, k)
-        jac = (res[1:] - res[0][None]) / (h * dirs).T[:, :, None]  # (k params, n, k eqs)
-        jac = np.transpose(jac, (1, 2, 0))  # (n, k eqs, k params)
+        res = evaluate(np.concatenate(stack), idx).reshape(k + 1, m, k)
+        jac = (res[1:] - res[0][None]) / (h * dirs).T[:, :, None]  # (k params, m, k eqs)
+        jac = np.transpose(jac, (1, 2, 0))  # (m, k eqs, k params)
         return res[0], np.where(np.isfinite(jac), jac, 0.0)
 
-    r, jac = residual_and_jacobian(p)
+    r, jac = residual_and_jacobian(p, np.arange(n))
     cost = np.sum(r**2, axis=1)
     lam = np.full(n, 1e-2)
     done = 0
-    while done < iterations and not np.all(cost <= 1.0):
+    while done < iterations:
+        open_ = np.flatnonzero((cost > 1.0) & (lam < 1e8))
+        if open_.size == 0:
+            break
         done += 1
-        jt = np.transpose(jac, (0, 2, 1))
-        jtj = jt @ jac
-        damp = lam[:, None] * (np.einsum("nii->ni", jtj) + 1e-9)
-        step = np.linalg.solve(jtj + damp[:, :, None] * np.eye(k), -(jt @ r[:, :, None]))
-        trial = np.clip(p + np.clip(step[:, :, 0], -5 * scale, 5 * scale), lo, hi)
-        r_t, jac_t = residual_and_jacobian(trial)
+        jo, ro = jac[open_], r[open_]
+        jt = np.transpose(jo, (0, 2, 1))
+        jtj = jt @ jo
+        damp = lam[open_, None] * (np.einsum("nii->ni", jtj) + 1e-9)
+        step = np.linalg.solve(jtj + damp[:, :, None] * np.eye(k), -(jt @ ro[:, :, None]))
+        trial = np.clip(p[open_] + np.clip(step[:, :, 0], -5 * scale, 5 * scale), lo, hi)
+        r_t, jac_t = residual_and_jacobian(trial, open_)
         cost_t = np.sum(r_t**2, axis=1)
-        accept = (cost_t < cost) & (cost > 1.0)
-        p[accept], r[accept], jac[accept], cost[accept] = (
-            trial[accept],
-            r_t[accept],
-            jac_t[accept],
-            cost_t[accept],
+        better = cost_t < cost[open_]
+        won = open_[better]
+        p[won], r[won], jac[won], cost[won] = (
+            trial[better],
+            r_t[better],
+            jac_t[better],
+            cost_t[better],
         )
-        lam = np.where(accept, lam * 0.3, lam * 10.0)
+        lam[open_] = np.where(better, lam[open_] * 0.3, lam[open_] * 10.0)
     return p, cost <= 1.0, done
 
 
@@ -179,31 +188,32 @@ def aim_stroke(
     hi = np.array([_SWING_BOUNDS[k][1] for k in names])
     scale = np.array([_SWING_BOUNDS[k][2] for k in names])
 
-    def swings(p):
-        m = p.shape[0]
-        fields = {f: np.resize(getattr(base, f), m) for f in Swing.FIELDS}
+    def swings(p, idx):
+        reps = p.shape[0] // len(idx)
+        fields = {f: np.tile(getattr(base, f)[idx], reps) for f in Swing.FIELDS}
         for j, name in enumerate(names):
             fields[name] = p[:, j]
         fields["face_azimuth"] = fields["swing_direction"] + offset
         return Swing(**fields)
 
-    def run(p, record=False):
-        m = p.shape[0]
-        reps = m // n
+    def run(p, idx, record=False):
+        reps = p.shape[0] // len(idx)
         st = BallState(
-            *(np.tile(a, (reps, 1)) for a in (state.position, state.velocity, state.spin))
+            *(np.tile(a[idx], (reps, 1)) for a in (state.position, state.velocity, state.spin))
         )
-        return simulate(st, swings(p), conditions, serve=np.tile(serve, reps), record=record)
+        return simulate(
+            st, swings(p, idx), conditions, serve=np.tile(serve[idx], reps), record=record
+        )
 
-    def evaluate(p):
-        reps = p.shape[0] // n
-        m = run(p).metrics
+    def evaluate(p, idx):
+        reps = p.shape[0] // len(idx)
+        m = run(p, idx).metrics
         out = [
-            (_finite(m["land_x_m"], -30.0) - np.tile(tx, reps)) / LAND_TOL_M,
-            (_finite(m["land_y_m"], 0.0) - np.tile(ty, reps)) / LAND_TOL_M,
+            (_finite(m["land_x_m"], -30.0) - np.tile(tx[idx], reps)) / LAND_TOL_M,
+            (_finite(m["land_y_m"], 0.0) - np.tile(ty[idx], reps)) / LAND_TOL_M,
         ]
         if extra is not None:
-            out.append((_height_value(m, extra_key) - np.tile(extra, reps)) / HEIGHT_TOL_M)
+            out.append((_height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M)
         return np.stack(out, axis=1)
 
     p0 = np.tile([getattr(stroke, k) for k in names], (n, 1))
@@ -211,7 +221,7 @@ def aim_stroke(
     p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
     p0 = np.clip(p0, lo, hi)
     p, ok, iters = _solve(evaluate, p0, lo, hi, scale)
-    result = run(p, record=True)
+    result = run(p, np.arange(n), record=True)
     ok = ok & ~np.isin(result.metrics["outcome"], ("net", "miss"))
     reason = _reasons(
         result.metrics, ok, tx, p, lo, hi, names, extra_key if extra is not None else None, extra
@@ -367,23 +377,22 @@ def aim_feed(
     lo, hi, scale = np.array(lo), np.array(hi), np.array(scale)
     far = replace(conditions)
 
-    def run(p, record=False):
-        reps = p.shape[0] // n
-        sp = np.tile(fixed_speed, reps) if fixed_speed is not None else p[:, 2]
-        st = _feed_state(origin, sp, p[:, 0], p[:, 1], np.tile(spin, reps))
+    def run(p, idx, record=False):
+        reps = p.shape[0] // len(idx)
+        sp = np.tile(fixed_speed[idx], reps) if fixed_speed is not None else p[:, 2]
+        st = _feed_state(origin, sp, p[:, 0], p[:, 1], np.tile(spin[idx], reps))
         return launch(st, far, record=record)
 
-    def evaluate(p):
-        reps = p.shape[0] // n
-        m = run(p).metrics
+    def evaluate(p, idx):
+        reps = p.shape[0] // len(idx)
+        m = run(p, idx).metrics
         out = [
-            (_finite(m["land_x_m"], -30.0) - np.tile(ctx, reps)) / LAND_TOL_M,
-            (_finite(m["land_y_m"], 0.0) - np.tile(cty, reps)) / LAND_TOL_M,
+            (_finite(m["land_x_m"], -30.0) - np.tile(ctx[idx], reps)) / LAND_TOL_M,
+            (_finite(m["land_y_m"], 0.0) - np.tile(cty[idx], reps)) / LAND_TOL_M,
         ]
         if fixed_speed is None:
-            out.append(
-                (_height_value(m, "receiver_height_m") - np.tile(heights, reps)) / HEIGHT_TOL_M
-            )
+            target = np.tile(heights[idx], reps)
+            out.append((_height_value(m, "receiver_height_m") - target) / HEIGHT_TOL_M)
         return np.stack(out, axis=1)
 
     dist = np.hypot(ctx - origin[0], cty - origin[1])
@@ -394,7 +403,7 @@ def aim_feed(
     )
     p0 = np.clip(p0, lo, hi)
     p, ok, iters = _solve(evaluate, p0, lo, hi, scale)
-    result = run(p, record=True)
+    result = run(p, np.arange(n), record=True)
     ok = ok & (reason_pre == "") & (result.metrics["outcome"] != "net")
     reason = reason_pre.copy()
     at_lo, at_hi = p <= lo + 1e-9, p >= hi - 1e-9
