@@ -209,8 +209,8 @@ def aim_stroke(
         reps = p.shape[0] // len(idx)
         m = run(p, idx).metrics
         out = [
-            (_finite(m["land_x_m"], -30.0) - np.tile(tx[idx], reps)) / LAND_TOL_M,
-            (_finite(m["land_y_m"], 0.0) - np.tile(ty[idx], reps)) / LAND_TOL_M,
+            (_finite(m["flight_ground_x_m"], -30.0) - np.tile(tx[idx], reps)) / LAND_TOL_M,
+            (_finite(m["flight_ground_y_m"], 0.0) - np.tile(ty[idx], reps)) / LAND_TOL_M,
         ]
         if extra is not None:
             out.append((_height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M)
@@ -387,8 +387,8 @@ def aim_feed(
         reps = p.shape[0] // len(idx)
         m = run(p, idx).metrics
         out = [
-            (_finite(m["land_x_m"], -30.0) - np.tile(ctx[idx], reps)) / LAND_TOL_M,
-            (_finite(m["land_y_m"], 0.0) - np.tile(cty[idx], reps)) / LAND_TOL_M,
+            (_finite(m["flight_ground_x_m"], -30.0) - np.tile(ctx[idx], reps)) / LAND_TOL_M,
+            (_finite(m["flight_ground_y_m"], 0.0) - np.tile(cty[idx], reps)) / LAND_TOL_M,
         ]
         if fixed_speed is None:
             target = np.tile(heights[idx], reps)

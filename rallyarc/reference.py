@@ -148,6 +148,9 @@ def play_shot(position, velocity, spin, swing, conditions, serve=False, **solver
         out["outcome"] = "miss" if not approaching else "net"
         return out
     t_land, y_land = landing
+    if crossing is not None and not over:  # stopped by the net: no landing
+        out["outcome"] = "net"
+        return out
     out["land_x_m"], out["land_y_m"], out["land_t_s"] = y_land[0], y_land[1], t_land
     call = judge_landing([y_land[0]], [y_land[1]], [x0[1]], [serve], conditions.singles)[
         "land_call"

@@ -461,14 +461,25 @@ def launch(
     m["flight_peak_m"] = np.where(peak.occurred, peak.position[:, 2], start.position[:, 2])
     m["flight_peak_x_m"] = np.where(peak.occurred, peak.position[:, 0], start.position[:, 0])
 
-    landed = first.ended_by("ground")
+    # a ball that meets the net stops there: it has no landing (the flight was carried on past
+    # the net only to find where the ball would have gone, which is not reported)
+    stopped = crossed & ~over
+    ground = first.ended_by("ground")
+    landed = ground & ~stopped
     land = first.position
+    # where the free flight meets the ground, through the net if need be: a smooth function of
+    # the launch for the aiming solvers, not a landing
+    m["flight_ground_x_m"] = np.where(ground, land[:, 0], np.nan)
+    m["flight_ground_y_m"] = np.where(ground, land[:, 1], np.nan)
     m["land_x_m"] = np.where(landed, land[:, 0], np.nan)
     m["land_y_m"] = np.where(landed, land[:, 1], np.nan)
     m["land_t_s"] = np.where(landed, first.t, np.nan)
     m.update(
         judge_landing(m["land_x_m"], m["land_y_m"], start.position[:, 1], serve, conditions.singles)
     )
+    own_side = landed & (land[:, 0] <= 0)  # short of the net: margins to the far lines mean nothing
+    for key in ("land_depth_m", "land_side_margin_m", "land_box_depth_m", "land_box_side_margin_m"):
+        m[key] = np.where(own_side, np.nan, m[key])
     past_net = landed & over & (land[:, 0] > 0)
     outcome = np.where(past_net, m.pop("land_call"), "net").astype("<U4")
     outcome[~approaching] = "miss"

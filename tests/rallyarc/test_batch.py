@@ -127,7 +127,7 @@ def test_batch_engine_and_per_shot_rk45_match_solve_ivp_dop853(cond, shots, solv
     sub_sw = Swing(**{f: getattr(swing, f)[idx] for f in Swing.FIELDS})
     ref = play_shots(sub_in, sub_sw, cond, serve[idx], **REFERENCE)
     per_shot = play_shots(sub_in, sub_sw, cond, serve[idx], **solver)
-    assert np.isfinite(ref["land_x_m"]).sum() >= 15
+    assert np.isfinite(ref["land_x_m"]).sum() >= 12  # a ball stopped by the net has no landing
     assert np.isfinite(ref["bounce_apex_m"]).sum() >= 5
     for got in ({k: v[idx] for k, v in batch.items()}, per_shot):
         np.testing.assert_array_equal(got["outcome"], ref["outcome"])

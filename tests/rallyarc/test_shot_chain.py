@@ -152,8 +152,9 @@ def test_more_topspin_to_the_same_depth_bounces_higher():
     apex, clearance = [], []
     for spin in (0.0, 1500.0, 3000.0):
 
-        def land(angle, spin=spin):
-            return _launch_from_baseline(110.0, angle, spin, cond).metrics["land_x_m"][0] - 9.5
+        def land(angle, spin=spin):  # where the flight meets the ground, even through the net
+            m = _launch_from_baseline(110.0, angle, spin, cond).metrics
+            return m["flight_ground_x_m"][0] - 9.5
 
         angle = brentq(land, 0.0, 30.0)
         m = _launch_from_baseline(110.0, angle, spin, cond).metrics
@@ -306,3 +307,20 @@ def test_ball_touching_the_line_is_in():
     assert judge_landing([12.0], [4.2], 0.0, False)["land_call"][0] == "out"
     ad = judge_landing([3.0], [-2.0], 0.5, True)  # from the ad side, into the ad box
     assert ad["land_call"][0] == "in" and ad["land_service_box"][0] == "ad"
+
+
+def test_a_ball_stopped_by_the_net_has_no_landing():
+    # ITF Rules of Tennis: a ball that does not pass over the net is not a good return; the
+    # ball stops at the net, so no landing or margins are reported for it.
+    sc, incoming = demo()
+    flat = next(s for s in sc.strokes if s.name == "flat_drive")
+    res = play([flat], sc.conditions, incoming, face_tilt=np.radians([2.0, 5.6]))
+    m = res.metrics
+    assert list(res.outcome) == ["net", "in"]
+    assert m["net_clearance_m"][0] < 0 and m["net_crossed_plane"][0]
+    for key in ("land_x_m", "land_y_m", "land_depth_m", "land_side_margin_m", "bounce_apex_m"):
+        assert np.isnan(m[key][0]) and np.isfinite(m[key][1]), key
+    # the free flight is still followed to the ground for solvers, beyond the net
+    assert m["flight_ground_x_m"][0] > 0
+    t, pos, _ = res.path(0, dt=0.005)
+    assert pos[:, 0].max() <= 1e-6  # the drawn path ends at the net
