@@ -729,7 +729,7 @@ def window_plot(window_result, ax=None):
         if np.any(w.outcome == o)
     ]
     if inside.sum() >= 4 and len(xs) > 1 and len(ys) > 1:
-        for key, (name, short, style, levels) in _MARGIN_STYLES.items():
+        for band, (key, (name, short, style, levels)) in enumerate(_MARGIN_STYLES.items()):
             field = np.where(inside, getattr(w, key), np.nan)
             if not np.any(np.isfinite(field)):
                 continue
@@ -739,7 +739,8 @@ def window_plot(window_result, ax=None):
                 continue
             cs = ax.contour(xs, ys, field, levels=lv, colors="white", linestyles=[style],
                             linewidths=1.3, zorder=3)  # fmt: skip
-            ax.clabel(cs, fmt=lambda v, s=short: f"{s} {v:g} m", fontsize=7.5, colors="white")
+            ax.clabel(cs, fmt=lambda v, s=short: f"{s} {v:g} m", fontsize=7.5, colors="white",
+                      manual=_label_spots(cs, ys, band))  # fmt: skip
             handles.append(Line2D([], [], color="#333333", ls=style, lw=1.3,
                                   label=f"{name} inside the window [m]"))  # fmt: skip
     nx, ny = px.from_si(w.nominal[0]), py.from_si(w.nominal[1])
@@ -773,6 +774,23 @@ def window_plot(window_result, ax=None):
         alignment="left",
     )
     return fig
+
+
+def _label_spots(cs, ys, band):
+    """One label position per contour line, at a height of the map kept for this family of
+    margins (net clearance high, depth low, side margin in between), so that the labels of
+    lines that run close together do not fall on each other."""
+    # away from the middle, where the stroke's own setting and its arrows usually are
+    target = ys.min() + (0.86, 0.14, 0.7)[band % 3] * (ys.max() - ys.min())
+    spots = []
+    for segments in cs.allsegs:
+        points = [seg for seg in segments if len(seg)]
+        if not points:
+            continue
+        points = np.concatenate(points)
+        k = int(np.argmin(np.abs(points[:, 1] - target)))
+        spots.append(tuple(points[k]))
+    return spots
 
 
 def _room_arrows(ax, w, px, py, nx, ny):
