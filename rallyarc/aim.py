@@ -147,8 +147,9 @@ def aim_stroke(
     ----------
     incoming : BallState
         The ball at contact, one or N (a serve uses its toss when ``None``).
-    stroke : rallyarc.domain.Stroke
-        The stroke style; its other swing values are kept.
+    stroke : rallyarc.domain.Stroke, or a sequence of N of them
+        The stroke style (one for every target, or one per target); its other swing values
+        are kept. Targets of different styles solve together in one batch.
     target_x, target_y : float or array (N,)
         Landing targets [m], court frame (the hitter at the near end).
     free : {"tilt", "speed"}
@@ -176,14 +177,17 @@ def aim_stroke(
         names.append("head_speed" if free == "tilt" else "face_tilt")
         extra = np.broadcast_to(np.asarray(extra, float), tx.shape)
     n = tx.size
+    strokes = [stroke] * n if not isinstance(stroke, list | tuple) else list(stroke)
+    if len(strokes) != n:
+        raise ValueError(f"give one stroke or one per target ({n}), not {len(strokes)}")
     if incoming is None:
         from rallyarc.shot import serve_states
 
-        incoming = serve_states([stroke])
+        incoming = serve_states(strokes)
     state = BallState.of(incoming.position, incoming.velocity, incoming.spin, n)
-    base = Swing.from_strokes([stroke], n=n)
-    offset = stroke.face_azimuth - stroke.swing_direction
-    serve = np.full(n, stroke.kind == "serve")
+    base = Swing.from_strokes(strokes, n=n)
+    offset = base.face_azimuth - base.swing_direction
+    serve = np.array([s.kind == "serve" for s in strokes])
     lo = np.array([_SWING_BOUNDS[k][0] for k in names])
     hi = np.array([_SWING_BOUNDS[k][1] for k in names])
     scale = np.array([_SWING_BOUNDS[k][2] for k in names])
@@ -193,7 +197,7 @@ def aim_stroke(
         fields = {f: np.tile(getattr(base, f)[idx], reps) for f in Swing.FIELDS}
         for j, name in enumerate(names):
             fields[name] = p[:, j]
-        fields["face_azimuth"] = fields["swing_direction"] + offset
+        fields["face_azimuth"] = fields["swing_direction"] + np.tile(offset[idx], reps)
         return Swing(**fields)
 
     def run(p, idx, record=False):
@@ -216,7 +220,7 @@ def aim_stroke(
             out.append((_height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M)
         return np.stack(out, axis=1)
 
-    p0 = np.tile([getattr(stroke, k) for k in names], (n, 1))
+    p0 = np.stack([getattr(base, k) for k in names], axis=1).astype(float)
     x0, y0 = state.position[:, 0], state.position[:, 1]
     p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
     p0 = np.clip(p0, lo, hi)

@@ -766,21 +766,21 @@ def _play_block(patterns, start, n, stream, limit, report):
                 "fields": {f: np.zeros(a.size) for f in Swing.FIELDS},
                 "reachable": np.zeros(a.size, bool),
             }
-        # aim: one batched solve per stroke style, aim style, clearance and racket, over both
-        # players (when they play with the same racket) and every live rally
+        # aim: one batched solve per aim style, clearance and racket, over both players (when
+        # they play with the same racket), every stroke style and every live rally
         groups = {}
         for e, plan in plans.items():
             for j, s in enumerate(plan["entries"]):
                 k = np.flatnonzero(plan["entry_of"] == j)
                 if k.size:
-                    key = (s.stroke_name, s.aim, s.clearance, players[e].racket_name)
+                    key = (s.aim, s.clearance, players[e].racket_name)
                     groups.setdefault(key, []).append((e, k, s))
         for members in groups.values():
             e0, _, s0 = members[0]
             rid = np.concatenate([plans[e]["a"][k] for e, k, _ in members])
             res = aim_stroke(
                 BallState(pos[rid], vel[rid], spin[rid]),
-                s0.stroke,
+                [s.stroke for _, k, s in members for _ in range(k.size)],
                 players[e0].conditions,
                 np.concatenate([plans[e]["tx"][k] for e, k, _ in members]),
                 np.concatenate([plans[e]["ty"][k] for e, k, _ in members]),
