@@ -210,3 +210,20 @@ def test_an_unreachable_target_exits_with_status_1_after_saying_why():
     stroke = CliRunner().invoke(main, ["aim", "stroke", "--target", "4,0", "--solve", "speed"])
     assert stroke.exit_code in (0, 1)
     assert ("solved" in stroke.output) == (stroke.exit_code == 0)
+
+
+def test_targets_of_different_strokes_solve_together_as_they_do_apart():
+    # The solver's systems are independent: a batch of mixed stroke styles gives each target
+    # the swing that a call with its own style alone gives (consistency of the batch design).
+    sc, incoming = demo()
+    drive, slice_ = domain.load_stroke("topspin_drive"), domain.load_stroke("slice")
+    tx, ty = np.array([10.0, 9.0, 8.5]), np.array([2.0, -3.0, 1.0])
+    mixed = aim_stroke(incoming, [drive, slice_, drive], sc.conditions, tx, ty)
+    for i, stroke in enumerate([drive, slice_, drive]):
+        alone = aim_stroke(incoming, stroke, sc.conditions, tx[i], ty[i])
+        for name in mixed.settings:
+            assert mixed.settings[name][i] == pytest.approx(alone.settings[name][0], abs=1e-12)
+        assert mixed.result.swing.swing_path[i] == pytest.approx(stroke.swing_path)
+    assert mixed.reachable.all() and mixed.miss_distance().max() < 0.05
+    with pytest.raises(ValueError, match="one per target"):
+        aim_stroke(incoming, [drive, slice_], sc.conditions, tx, ty)
