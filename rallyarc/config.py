@@ -369,6 +369,16 @@ def validate(kind, data, where):
     return out
 
 
+def referenced(data, key, loader, where=None, name=None):
+    """The preset that a loaded config names under ``key``, loaded with ``loader``; an error
+    names this file (``where``, default the config's own) and the key (``name``, default
+    ``key``)."""
+    try:
+        return loader(data[key])
+    except InputError as exc:
+        raise InputError(f"{where or data['where']}: key {name or key!r}: {exc}") from None
+
+
 def load(kind, name_or_path):
     """Load and validate a preset by name (``"clay"``) or a TOML file by path."""
     if kind not in SCHEMAS:

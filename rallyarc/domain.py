@@ -268,10 +268,7 @@ def load_scenario(name):
     where = data["where"]
 
     def sub(loader, key):
-        try:
-            return loader(data[key])
-        except InputError as exc:
-            raise InputError(f"{where}: key {key!r}: {exc}") from None
+        return config.referenced(data, key, loader)
 
     conditions = Conditions(
         ball=sub(load_ball, "ball"),

@@ -45,10 +45,7 @@ def load_drill(name):
     where = data["where"]
 
     def sub(loader, key):
-        try:
-            return loader(data[key])
-        except InputError as exc:
-            raise InputError(f"{where}: key {key!r}: {exc}") from None
+        return config.referenced(data, key, loader)
 
     machine = sub(load_machine, "machine")
     conditions = domain.Conditions(

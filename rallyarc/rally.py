@@ -54,7 +54,7 @@ import numpy as np
 from rallyarc import config, court, domain
 from rallyarc.aim import aim_stroke
 from rallyarc.errors import InputError
-from rallyarc.shot import BallState, Swing, simulate
+from rallyarc.shot import BallState, Swing, simulate, topspin_sidespin
 from rallyarc.units import KMH, RPM
 
 ENDS = ("near", "far")
@@ -214,10 +214,7 @@ def _player(data, end, base, where):
     p = end
 
     def sub(loader, key):
-        try:
-            return loader(data[key])
-        except InputError as exc:
-            raise InputError(f"{where}: key '{p}.{key}': {exc}") from None
+        return config.referenced(data, key, loader, where, f"{p}.{key}")
 
     band = _range(data["contact_height_m"], f"{p}.contact_height_m", where)
     lowest = data.get("lowest_contact_m", LOWEST_CONTACT_M)
@@ -294,10 +291,7 @@ def load_patterns(name_or_path):
     where = data["where"]
 
     def sub(loader, key):
-        try:
-            return loader(data[key])
-        except InputError as exc:
-            raise InputError(f"{where}: key {key!r}: {exc}") from None
+        return config.referenced(data, key, loader)
 
     base = domain.Conditions(
         ball=sub(domain.load_ball, "ball"),
@@ -332,17 +326,6 @@ def with_scatter(patterns, factor):
 
 
 # ------------------------------------------------------------------------- ball quantities
-
-
-def topspin_sidespin(velocity, spin):
-    """Topspin [rad/s] (spin about z x the horizontal travel direction; negative: backspin)
-    and sidespin [rad/s] (about +z) of balls ``(N, 3)``; the definitions of the shot metrics."""
-    horizontal = velocity[:, :2]
-    norm = np.linalg.norm(horizontal, axis=1)
-    safe = np.where(norm > 0, norm, 1.0)
-    dx, dy = horizontal[:, 0] / safe, horizontal[:, 1] / safe
-    top = -dy * spin[:, 0] + dx * spin[:, 1]
-    return np.where(norm > 0, top, spin[:, 1]), spin[:, 2]
 
 
 def contact_side(y, player):

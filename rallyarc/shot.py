@@ -96,8 +96,9 @@ def serve_states(strokes):
     return BallState(pos, vel, spin)
 
 
-def _topspin_side(velocity, spin):
-    """Topspin [rad/s] (about z x travel) and sidespin [rad/s] (about +z) of balls."""
+def topspin_sidespin(velocity, spin):
+    """Topspin [rad/s] (spin about z x the horizontal travel direction; negative: backspin)
+    and sidespin [rad/s] (about +z) of balls ``(N, 3)``; the definitions of the shot metrics."""
     horizontal = velocity[:, :2]
     norm = np.linalg.norm(horizontal, axis=1)
     safe = np.where(norm > 0, norm, 1.0)
@@ -384,7 +385,7 @@ def simulate(incoming, swing, conditions, labels=None, serve=None, record=True, 
 def _impact_metrics(contact):
     m = {}
     v0, w0 = contact.velocity, contact.spin
-    top0, side0 = _topspin_side(v0, w0)
+    top0, side0 = topspin_sidespin(v0, w0)
     m["impact_speed_mps"] = np.linalg.norm(v0, axis=1)
     m["impact_launch_deg"] = -_angle_below(v0)
     m["impact_azimuth_deg"] = np.degrees(np.arctan2(v0[:, 1], v0[:, 0]))
@@ -432,7 +433,7 @@ def launch(
     v0, w0 = start.velocity, start.spin
     incoming = start
     if metrics is None:
-        top0, side0 = _topspin_side(v0, w0)
+        top0, side0 = topspin_sidespin(v0, w0)
         m["impact_speed_mps"] = np.linalg.norm(v0, axis=1)
         m["impact_launch_deg"] = -_angle_below(v0)
         m["impact_azimuth_deg"] = np.degrees(np.arctan2(v0[:, 1], v0[:, 0]))
@@ -485,7 +486,7 @@ def launch(
     outcome[~approaching] = "miss"
     m["outcome"] = outcome
     vin = first.velocity
-    top_in, _ = _topspin_side(vin, first.spin)
+    top_in, _ = topspin_sidespin(vin, first.spin)
     m["land_speed_mps"] = np.where(landed, np.linalg.norm(vin, axis=1), np.nan)
     m["land_angle_deg"] = np.where(landed, _angle_below(vin), np.nan)
 
@@ -533,8 +534,8 @@ def launch(
         surface = conditions.surface_for_ball()
         res = bounce(vin[idx], first.spin[idx], r, ball.alpha, surface)
         vb, wb = res.velocity, res.spin
-        top_b, side_b = _topspin_side(vin[idx], wb)
-        _, side_in = _topspin_side(vin[idx], first.spin[idx])
+        top_b, side_b = topspin_sidespin(vin[idx], wb)
+        _, side_in = topspin_sidespin(vin[idx], first.spin[idx])
         angle_in = _angle_below(vin[idx])
         angle_out = -_angle_below(vb)
         m["bounce_t_s"][idx] = first.t[idx]
