@@ -31,3 +31,22 @@ def net_height(y, singles=True):
     support = SINGLES_STICK_Y if singles else POST_Y
     frac = np.minimum(np.abs(np.asarray(y, dtype=float)) / support, 1.0)
     return NET_HEIGHT_CENTRE + (NET_HEIGHT_POST - NET_HEIGHT_CENTRE) * frac**2
+
+
+#: Width of the lines drawn [m] (ITF Rules of Tennis, Rule 1: 2.5 to 5 cm; the baselines up to
+#: 10 cm), and the length of the centre mark into the court [m] (10 cm, same rule).
+LINE_WIDTH = 0.05
+CENTRE_MARK = 0.10
+
+
+def line_segments():
+    """The court's lines as ``(x0, y0, x1, y1)`` along their centres [m]: the doubles and
+    singles sidelines, both baselines, both service lines, the centre service line and the two
+    centre marks (which reach ``CENTRE_MARK`` into the court from each baseline)."""
+    hl, hw, sw = HALF_LENGTH, DOUBLES_WIDTH / 2.0, SINGLES_WIDTH / 2.0
+    out = [(-hl, y, hl, y) for y in (-hw, -sw, sw, hw)]
+    out += [(x, -hw, x, hw) for x in (-hl, hl)]
+    out += [(x, -sw, x, sw) for x in (-SERVICE_LINE, SERVICE_LINE)]
+    out.append((-SERVICE_LINE, 0.0, SERVICE_LINE, 0.0))
+    out += [(-hl, 0.0, -hl + CENTRE_MARK, 0.0), (hl - CENTRE_MARK, 0.0, hl, 0.0)]
+    return out

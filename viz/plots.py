@@ -462,34 +462,32 @@ def _side_title(result):
 def _court_lines(ax, singles):
     """The court's lines to scale (5 cm wide), net, posts and singles sticks."""
     hexes = palette.COURT_HEX
-    hl, hw, sw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2, court.SINGLES_WIDTH / 2
+    hl, hw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2
     x0, x1 = ax.get_xlim()
     y0, y1 = ax.get_ylim()
     ax.add_patch(Rectangle((x0, y0), x1 - x0, y1 - y0, fc=hexes["surround"], lw=0, zorder=0))
     ax.add_patch(Rectangle((-hl, -hw), 2 * hl, 2 * hw, fc=hexes["surface"], lw=0, zorder=0))
-    w = 0.05
-
-    def strip(xa, ya, xb, yb):
-        if xa == xb:
-            ax.add_patch(Rectangle((xa - w / 2, ya), w, yb - ya, fc=hexes["line"], lw=0, zorder=1))
-        else:
-            ax.add_patch(Rectangle((xa, ya - w / 2), xb - xa, w, fc=hexes["line"], lw=0, zorder=1))
-
-    for y in (-hw, -sw, sw, hw):
-        strip(-hl, y, hl, y)
-    for x in (-hl, hl):
-        strip(x, -hw, x, hw)
-    for x in (-court.SERVICE_LINE, court.SERVICE_LINE):
-        strip(x, -sw, x, sw)
-    strip(-court.SERVICE_LINE, 0.0, court.SERVICE_LINE, 0.0)
-    for x in (-hl, hl - 0.10):
-        strip(x, 0.0, x + 0.10, 0.0)  # centre marks
+    draw_court_lines(ax, zorder=1)
     ax.plot([0, 0], [-court.POST_Y, court.POST_Y], color=hexes["net"], lw=2.0, zorder=2)
     for y in (-court.POST_Y, court.POST_Y):
         ax.plot(0, y, marker="o", ms=5, color=hexes["net"], zorder=2)
     if singles:
         for y in (-court.SINGLES_STICK_Y, court.SINGLES_STICK_Y):
             ax.plot(0, y, marker="o", ms=3, mfc="white", mec=hexes["net"], zorder=2)
+
+
+def draw_court_lines(ax, zorder=1, edge=None):
+    """The court's lines as filled strips of their real width (:func:`rallyarc.court.
+    line_segments`), optionally with a thin ``edge`` colour so that they show on light data."""
+    w = court.LINE_WIDTH
+    for xa, ya, xb, yb in court.line_segments():
+        if xa == xb:
+            rect = Rectangle((xa - w / 2, ya), w, yb - ya)
+        else:
+            rect = Rectangle((xa, ya - w / 2), xb - xa, w)
+        rect.set(fc=palette.COURT_HEX["line"], ec=edge or "none", lw=0.3 if edge else 0,
+                 zorder=zorder)  # fmt: skip
+        ax.add_patch(rect)
 
 
 def _ellipse(points, n_sigma=2.0):

@@ -20,6 +20,7 @@ from matplotlib.patches import Patch, Rectangle
 from rallyarc import court
 from rallyarc.export import atomic_write
 from viz import palette
+from viz.plots import draw_court_lines
 
 _DPI = 120
 #: Most points drawn per panel of the spin exchange (a random subset beyond it, fixed seed).
@@ -47,24 +48,7 @@ def _players(summary):
 def _court(ax, zorder=3):
     """The court's lines (5 cm, to scale), net and posts, drawn above the data."""
     hexes = palette.COURT_HEX
-    hl, hw, sw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2, court.SINGLES_WIDTH / 2
-    w = 0.05
-
-    def strip(xa, ya, xb, yb):
-        if xa == xb:
-            rect = Rectangle((xa - w / 2, ya), w, yb - ya)
-        else:
-            rect = Rectangle((xa, ya - w / 2), xb - xa, w)
-        rect.set(fc=hexes["line"], ec=hexes["ink"], lw=0.3, zorder=zorder)
-        ax.add_patch(rect)
-
-    for y in (-hw, -sw, sw, hw):
-        strip(-hl, y, hl, y)
-    for x in (-hl, hl):
-        strip(x, -hw, x, hw)
-    for x in (-court.SERVICE_LINE, court.SERVICE_LINE):
-        strip(x, -sw, x, sw)
-    strip(-court.SERVICE_LINE, 0.0, court.SERVICE_LINE, 0.0)
+    draw_court_lines(ax, zorder=zorder, edge=hexes["ink"])
     ax.plot([0, 0], [-court.POST_Y, court.POST_Y], color=hexes["net"], lw=2.0, zorder=zorder + 1)
 
 

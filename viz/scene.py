@@ -44,7 +44,6 @@ MARKER_WORDS = {
     "apex": "cone: apex after the bounce",
 }
 _MANY = 12  # more shots than this: thin tubes, no event markers, at most 60 paths
-_LINE_WIDTH = 0.05  # court lines [m] (ITF Rules of Tennis, Rule 1: 2.5-5 cm; baseline up to 10)
 _TUBE_RADIUS = 0.045  # about the ball's radius, enlarged a little to read at court scale
 
 
@@ -72,7 +71,7 @@ def _flat_box(pv, x0, x1, y0, y1, z0, z1):
 
 def _court(pv, plotter, singles):
     hexes = palette.COURT_HEX
-    hl, hw, sw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2, court.SINGLES_WIDTH / 2
+    hl, hw = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2
     plotter.add_mesh(
         pv.Plane(center=(0, 0, -0.006), i_size=2 * hl + 60.0, j_size=2 * hw + 60.0),
         color=hexes["ground"],
@@ -88,19 +87,13 @@ def _court(pv, plotter, singles):
         color=hexes["surface"],
         name="surface",
     )
-    w, z0, z1 = _LINE_WIDTH, 0.0, 0.004
+    w, z0, z1 = court.LINE_WIDTH, 0.0, 0.004
     lines = []
-    for y in (-hw, -sw, sw, hw):  # sidelines
-        lines.append(_flat_box(pv, -hl, hl, y - w / 2, y + w / 2, z0, z1))
-    for x in (-hl, hl):  # baselines
-        lines.append(_flat_box(pv, x - w / 2, x + w / 2, -hw, hw, z0, z1))
-    for x in (-court.SERVICE_LINE, court.SERVICE_LINE):  # service lines
-        lines.append(_flat_box(pv, x - w / 2, x + w / 2, -sw, sw, z0, z1))
-    lines.append(
-        _flat_box(pv, -court.SERVICE_LINE, court.SERVICE_LINE, -w / 2, w / 2, z0, z1)
-    )  # centre service line
-    for x in (-hl, hl - 0.10):  # centre marks
-        lines.append(_flat_box(pv, x, x + 0.10, -w / 2, w / 2, z0, z1))
+    for xa, ya, xb, yb in court.line_segments():
+        if xa == xb:
+            lines.append(_flat_box(pv, xa - w / 2, xa + w / 2, ya, yb, z0, z1))
+        else:
+            lines.append(_flat_box(pv, xa, xb, ya - w / 2, ya + w / 2, z0, z1))
     merged = lines[0].merge(lines[1:])
     plotter.add_mesh(merged, color=hexes["line"], name="lines")
 
