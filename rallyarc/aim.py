@@ -140,6 +140,7 @@ def aim_stroke(
     free="tilt",
     clearance=None,
     receiver_height=None,
+    which=None,
 ):
     """Solve a stroke's free swing parameters so that the ball lands on target.
 
@@ -147,9 +148,10 @@ def aim_stroke(
     ----------
     incoming : BallState
         The ball at contact, one or N (a serve uses its toss when ``None``).
-    stroke : rallyarc.domain.Stroke, or a sequence of N of them
-        The stroke style (one for every target, or one per target); its other swing values
-        are kept. Targets of different styles solve together in one batch.
+    stroke : rallyarc.domain.Stroke, or a sequence of them
+        The stroke style (one for every target, or one per target, or K styles chosen per
+        target by ``which``); its other swing values are kept. Targets of different styles
+        solve together in one batch.
     target_x, target_y : float or array (N,)
         Landing targets [m], court frame (the hitter at the near end).
     free : {"tilt", "speed"}
@@ -158,6 +160,8 @@ def aim_stroke(
     clearance, receiver_height : float or array (N,), optional
         Also meet a net clearance [m] or a ball height at the receiver's plane [m]; the third
         free parameter is then head speed (style "tilt") or face tilt (style "speed").
+    which : int array (N,), optional
+        For a sequence of K strokes: the index of each target's stroke.
 
     Returns
     -------
@@ -177,17 +181,23 @@ def aim_stroke(
         names.append("head_speed" if free == "tilt" else "face_tilt")
         extra = np.broadcast_to(np.asarray(extra, float), tx.shape)
     n = tx.size
-    strokes = [stroke] * n if not isinstance(stroke, list | tuple) else list(stroke)
-    if len(strokes) != n:
-        raise ValueError(f"give one stroke or one per target ({n}), not {len(strokes)}")
+    several = isinstance(stroke, list | tuple)
+    styles = list(stroke) if several else [stroke]
+    if which is None:
+        if several and len(styles) != n:
+            raise ValueError(f"give one stroke or one per target ({n}), not {len(styles)}")
+        which = np.arange(n) if several else np.zeros(n, int)
+    which = np.broadcast_to(np.asarray(which, int), (n,))
     if incoming is None:
         from rallyarc.shot import serve_states
 
-        incoming = serve_states(strokes)
+        toss = serve_states(styles)
+        incoming = BallState(toss.position[which], toss.velocity[which], toss.spin[which])
     state = BallState.of(incoming.position, incoming.velocity, incoming.spin, n)
-    base = Swing.from_strokes(strokes, n=n)
+    per_style = Swing.from_strokes(styles)
+    base = Swing(**{f: getattr(per_style, f)[which] for f in Swing.FIELDS})
     offset = base.face_azimuth - base.swing_direction
-    serve = np.array([s.kind == "serve" for s in strokes])
+    serve = np.array([s.kind == "serve" for s in styles])[which]
     lo = np.array([_SWING_BOUNDS[k][0] for k in names])
     hi = np.array([_SWING_BOUNDS[k][1] for k in names])
     scale = np.array([_SWING_BOUNDS[k][2] for k in names])

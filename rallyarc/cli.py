@@ -895,17 +895,12 @@ def _write_drill(d, sheet, results, data, folder, step, speed_units):
 
 
 def _register_extensions():
-    """Commands that live in their own modules (plots and scenes, rallies) join the group here."""
-    import importlib
+    """Commands that live in their own modules (plots and scenes, rallies) join the group here,
+    after the helpers above that they use."""
+    from rallyarc import cli_rally, cli_viz
 
-    for name in ("rallyarc.cli_viz", "rallyarc.cli_rally"):
-        try:
-            module = importlib.import_module(name)
-        except ModuleNotFoundError as exc:
-            if exc.name != name:
-                raise
-            continue
-        module.register(main)
+    cli_viz.register(main)
+    cli_rally.register(main)
 
 
 if __name__ == "__main__":  # python -m rallyarc.cli: run the importable module's group

@@ -184,18 +184,6 @@ def _range(text, option, parameter, nominal):
     return lo, hi
 
 
-def _single_stroke(sc, strokes, name):
-    by_name = {s.name: s for s in sc.strokes}
-    if name is None:
-        return strokes[0]
-    if name not in by_name:
-        raise InputError(
-            f"--stroke: {name!r} is not a stroke of scenario {sc.name}; "
-            f"choose from {', '.join(by_name)}"
-        )
-    return by_name[name]
-
-
 def _nominal(stroke, parameter, sc, incoming):
     """The stroke's own value of a parameter, in display units."""
     from rallyarc import sweep
@@ -269,8 +257,9 @@ def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, bal
     export.check_targets(targets, force)
     n = int(units.number(steps, "--steps", 2, 500))
     p = _parameter(param, "--param")
-    sc, strokes, incoming = _load(scenario, (), ball, racket, air, surface_name, receiver_plane)
-    stroke = _single_stroke(sc, strokes, stroke_name)
+    chosen = (stroke_name,) if stroke_name else ()
+    sc, strokes, incoming = _load(scenario, chosen, ball, racket, air, surface_name, receiver_plane)
+    stroke = strokes[0]
     if stroke.kind == "serve":
         incoming = None
     nominal = _nominal(stroke, p, sc, incoming)
@@ -323,8 +312,9 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
             "launch parameters (launch_speed, launch_angle, launch_spin)"
         )
     n = int(units.number(steps, "--steps", 3, 201))
-    sc, strokes, incoming = _load(scenario, (), ball, racket, air, surface_name, receiver_plane)
-    stroke = _single_stroke(sc, strokes, stroke_name)
+    chosen = (stroke_name,) if stroke_name else ()
+    sc, strokes, incoming = _load(scenario, chosen, ball, racket, air, surface_name, receiver_plane)
+    stroke = strokes[0]
     if stroke.kind == "serve":
         incoming = None
     xlo, xhi = _range(x_range, "--x-range", px, _nominal(stroke, px, sc, incoming))

@@ -79,6 +79,8 @@ ENDINGS = {
     "double_fault": "receiver",
     "unfinished": None,
 }
+_HITTER_WINS = tuple(k for k, v in ENDINGS.items() if v == "hitter")
+_RECEIVER_WINS = tuple(k for k, v in ENDINGS.items() if v == "receiver")
 #: Row results that are not the end of a rally.
 ONGOING = ("continues", "fault")
 _FLIP = np.array([-1.0, -1.0, 1.0])
@@ -763,12 +765,13 @@ def _play_block(patterns, start, n, stream, limit, report):
             rid = np.concatenate([plans[e]["a"][k] for e, k, _ in members])
             res = aim_stroke(
                 BallState(pos[rid], vel[rid], spin[rid]),
-                [s.stroke for _, k, s in members for _ in range(k.size)],
+                [s.stroke for _, _, s in members],
                 players[e0].conditions,
                 np.concatenate([plans[e]["tx"][k] for e, k, _ in members]),
                 np.concatenate([plans[e]["ty"][k] for e, k, _ in members]),
                 free=s0.aim,
                 clearance=s0.clearance,
+                which=np.repeat(np.arange(len(members)), [k.size for _, k, _ in members]),
             )
             at = 0
             for e, k, _ in members:
@@ -791,7 +794,7 @@ def _play_block(patterns, start, n, stream, limit, report):
             fields["face_tilt"] = fields["face_tilt"] + pl.scatter["face_tilt"] * zs[:, 1]
             fields["swing_path"] = fields["swing_path"] + pl.scatter["swing_path"] * zs[:, 2]
             swing = Swing(**fields)
-            labels = np.array([entries[j].label for j in entry_of])
+            labels = np.array([s.label for s in entries])[entry_of]
             incoming = BallState(pos[a].copy(), vel[a].copy(), spin[a].copy())
             result = simulate(incoming, swing, pl.conditions, labels=labels, serve=is_serve)
             mt = result.metrics
@@ -856,8 +859,9 @@ def _play_block(patterns, start, n, stream, limit, report):
             done = ~np.isin(res_kind, ONGOING)
             ends = a[done]
             ending[ends] = res_kind[done]
-            who = np.array([ENDINGS[r] for r in res_kind[done]], dtype=object)
-            winner[ends] = np.where(who == "hitter", e, np.where(who == "receiver", 1 - e, -1))
+            won = np.isin(res_kind[done], _HITTER_WINS)
+            lost = np.isin(res_kind[done], _RECEIVER_WINS)
+            winner[ends] = np.where(won, e, np.where(lost, 1 - e, -1))
             live[ends] = False
             if done.any():
                 report(int(done.sum()))
@@ -911,8 +915,8 @@ def _rows(
     top_in, side_in = topspin_sidespin(incoming.velocity, incoming.spin)
     serve = kind != ""
     hand = np.where(serve, "", contact_side(incoming.position[:, 1], pl))
-    # a ball that meets the net stops there: no landing (the chain's first flight passes the
-    # net plane and keeps the landing it would have had)
+    # the table gives a landing only to a ball that passes the net: none for one stopped by
+    # it, or one that touches down on the hitter's own side (the chain keeps that touch)
     stopped = np.isin(m["outcome"], ("net", "miss"))
     land = np.stack([m["land_x_m"], m["land_y_m"]], axis=1) * flip[:2]
     land[stopped] = np.nan
@@ -924,7 +928,7 @@ def _rows(
     li = np.flatnonzero(landed_in)
     next_h[li] = np.where(contact.found, contact.position[:, 2], np.nan)
     next_t[li] = np.where(contact.found, contact.t, np.nan)
-    stroke_names = np.array([entries[j].stroke_name for j in entry_of], dtype=object)
+    stroke_names = np.array([s.stroke_name for s in entries], dtype=object)[entry_of]
     row = {
         "rally": a,
         "shot": shot,

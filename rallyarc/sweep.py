@@ -140,7 +140,12 @@ class Launch:
 
     def value(self, parameter):
         """This launch's own value of a launch parameter (SI)."""
-        return {"launch_speed": self.speed, "launch_angle": self.angle}.get(parameter, self.topspin)
+        values = {
+            "launch_speed": self.speed,
+            "launch_angle": self.angle,
+            "launch_spin": self.topspin,
+        }
+        return values[parameter]
 
 
 def _incoming_for(stroke, incoming):

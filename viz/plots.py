@@ -98,11 +98,17 @@ def _freeze(fig, own):
         fig.set_layout_engine("none")
 
 
-def _groups(result):
+def variant_groups(result):
     """Distinct labels in order of appearance, with the indices of their shots."""
     labels = np.asarray(result.labels).astype(str)
     order = list(dict.fromkeys(labels))
     return [(lab, np.flatnonzero(labels == lab), i) for i, lab in enumerate(order)]
+
+
+def drawn(idx, many, limit=40):
+    """The shots of a group whose paths are drawn: all of them, or the first ``limit`` when
+    there are many."""
+    return idx[:limit] if many else idx
 
 
 def _path(result, i, dt=0.004):
@@ -250,11 +256,11 @@ def side_view(result, ax=None, dt=0.004):
     n = len(result)
     many = n > _MANY
     plane_x = court.HALF_LENGTH + c.receiver_plane_m
-    groups = _groups(result)
+    groups = variant_groups(result)
 
     paths, beyond = {}, {}
     for _, idx, _ in groups:
-        for i in idx[:40] if many else idx:
+        for i in drawn(idx, many):
             paths[i] = _path(result, i, dt)
             beyond[i] = _beyond_receiver(result, i, dt)
 
@@ -273,7 +279,7 @@ def side_view(result, ax=None, dt=0.004):
     for label, idx, k in groups:
         colour, style = palette.variant_colour(k), palette.variant_style(k)
         lw, alpha = (0.9, 0.45) if many else (2.0, 1.0)
-        for j, i in enumerate(idx[:40] if many else idx):
+        for j, i in enumerate(drawn(idx, many)):
             p = paths[i]
             ax.plot(
                 p[:, 0],
@@ -295,7 +301,7 @@ def side_view(result, ax=None, dt=0.004):
     events = []
     for _label, idx, k in groups:
         colour = palette.variant_colour(k)
-        for i in idx[:40] if many else idx:
+        for i in drawn(idx, many):
             marks = _side_events(m, i, r, plane_x, _is_serve(result, [i]), colour)
             events.extend(e for e in marks if not (many and e[0] in ("apex", "twice")))
     for kind, x, z, _, colour in events:
@@ -396,7 +402,7 @@ def _side_court(ax, c, plane_x, bottom):
 
 def _side_legends(fig, ax, own, result, many):
     c = result.conditions
-    groups = _groups(result)
+    groups = variant_groups(result)
     handles = [
         Line2D([], [], color=palette.variant_colour(k), ls=palette.variant_style(k), lw=2.2)
         for _, _, k in groups
@@ -517,7 +523,7 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
     n = len(result)
     many = n > _MANY
     plane_x = court.HALF_LENGTH + c.receiver_plane_m
-    groups = _groups(result)
+    groups = variant_groups(result)
     hw = court.DOUBLES_WIDTH / 2
     ys = np.concatenate([m["land_y_m"], m["receiver_y_m"], result.incoming.position[:, 1]])
     y_ext = max(hw + 1.2, float(np.nanmax(np.abs(ys))) + 0.8)
@@ -535,7 +541,7 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
         colour, style = palette.variant_colour(k), palette.variant_style(k)
         # overlapping paths show as nested stripes: earlier variants drawn wider
         lw = 0.8 if many else 1.4 + 2.4 * (n_groups - 1 - k) / max(1, n_groups - 1)
-        for j, i in enumerate(idx[:40] if many else idx):
+        for j, i in enumerate(drawn(idx, many)):
             p = _path(result, i, dt)
             ax.plot(p[:, 0], p[:, 1], color=colour, ls=style, lw=lw, alpha=0.5 if many else 1.0,
                     zorder=3 + k * 0.01, label=display_label(label) if j == 0 else None,
@@ -738,7 +744,7 @@ def window_plot(window_result, ax=None):
             cs = ax.contour(xs, ys, field, levels=lv, colors="white", linestyles=[style],
                             linewidths=1.3, zorder=3)  # fmt: skip
             ax.clabel(cs, fmt=lambda v, s=short: f"{s} {v:g} m", fontsize=7.5, colors="white",
-                      manual=_label_spots(cs, ys, band))  # fmt: skip
+                      manual=_label_spots(cs, xs, ys, band))  # fmt: skip
             handles.append(Line2D([], [], color="#333333", ls=style, lw=1.3,
                                   label=f"{name} inside the window [m]"))  # fmt: skip
     nx, ny = px.from_si(w.nominal[0]), py.from_si(w.nominal[1])
@@ -774,7 +780,7 @@ def window_plot(window_result, ax=None):
     return fig
 
 
-def _label_spots(cs, ys, band):
+def _label_spots(cs, xs, ys, band):
     """One label position per contour line, at a height of the map kept for this family of
     margins (net clearance high, depth low, side margin in between), so that the labels of
     lines that run close together do not fall on each other."""
@@ -786,6 +792,10 @@ def _label_spots(cs, ys, band):
         if not points:
             continue
         points = np.concatenate(points)
+        # keep the label off the map's left and right edges, where it would be cut
+        span = xs.max() - xs.min()
+        inner = (points[:, 0] > xs.min() + 0.1 * span) & (points[:, 0] < xs.max() - 0.1 * span)
+        points = points[inner] if inner.any() else points
         k = int(np.argmin(np.abs(points[:, 1] - target)))
         spots.append(tuple(points[k]))
     return spots

@@ -21,7 +21,7 @@ import numpy as np
 from rallyarc import court
 from rallyarc.export import atomic_write
 from viz import palette
-from viz.plots import display_label
+from viz.plots import display_label, drawn, variant_groups
 
 #: Camera presets: (position, focal point, view up) in the court frame [m].
 CAMERAS = {
@@ -201,14 +201,13 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
     _court(pv, plotter, c.singles)
     _net(pv, plotter, c.singles)
 
-    labels = np.asarray(result.labels).astype(str)
-    order = list(dict.fromkeys(labels))
+    groups = variant_groups(result)
+    order = [label for label, _, _ in groups]
     many = len(result) > _MANY
     legend = []
-    for k, label in enumerate(order):
+    for label, idx, k in groups:
         colour = palette.variant_colour(k)
-        idx = np.flatnonzero(labels == label)
-        for i in idx[: max(1, 60 // len(order))] if many else idx:
+        for i in drawn(idx, many, limit=max(1, 60 // len(order))):
             _, pos, _ = result.path(i, dt=dt)
             pos = pos[np.all(np.isfinite(pos), axis=1)]
             if len(pos) < 2:
