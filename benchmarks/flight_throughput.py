@@ -9,8 +9,8 @@ import time
 import numpy as np
 from scipy.integrate import solve_ivp
 
-from flight.forces import FlightParams, acceleration
-from flight.integrate import fly, ground_contact, net_plane
+from rallyarc.flight.forces import FlightParams, acceleration
+from rallyarc.flight.integrate import fly, ground_contact, net_plane
 
 
 def shots(n, seed=2):

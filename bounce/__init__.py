@@ -8,7 +8,7 @@ Pure physics: depends on numpy only, works on batches of balls, SI units through
 - :mod:`bounce.pace`: the ITF CS 01/02 court pace rating, formula and simulated test.
 """
 
-from bounce.ball import (
+from .ball import (
     MAX_ALPHA,
     SOLID_SPHERE_ALPHA,
     TENNIS_BALL_ALPHA,
@@ -17,7 +17,7 @@ from bounce.ball import (
     kinetic_energy_per_unit_mass,
     thick_shell_alpha,
 )
-from bounce.contact import (
+from .contact import (
     DEFAULT_REFERENCE_SPEED_MPS,
     Bounce2D,
     BounceResult,
@@ -27,7 +27,7 @@ from bounce.contact import (
     critical_angle,
     normal_restitution,
 )
-from bounce.pace import (
+from .pace import (
     CATEGORY_NAMES,
     PACE_TEST_ANGLE_RAD,
     PACE_TEST_MAX_SPIN_RAD_S,

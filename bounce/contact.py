@@ -17,7 +17,7 @@ from typing import NamedTuple
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from bounce.ball import MAX_ALPHA
+from .ball import MAX_ALPHA
 
 __all__ = [
     "DEFAULT_REFERENCE_SPEED_MPS",

@@ -16,8 +16,8 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
-from bounce.ball import TENNIS_BALL_ALPHA
-from bounce.contact import Surface, bounce
+from .ball import TENNIS_BALL_ALPHA
+from .contact import Surface, bounce
 
 __all__ = [
     "PACE_TEST_SPEED_MPS",

@@ -11,8 +11,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from flight.aero import StepanekAero
-from flight.air import G0, ISA_SEA_LEVEL_DENSITY
+from .aero import StepanekAero
+from .air import G0, ISA_SEA_LEVEL_DENSITY
 
 
 def _vector3(value, name):

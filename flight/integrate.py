@@ -20,7 +20,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from flight.forces import aerodynamic_acceleration, gravity_acceleration, spin_at
+from .forces import aerodynamic_acceleration, gravity_acceleration, spin_at
 
 # Dormand-Prince 5(4) tableau.
 _C = (0.0, 1 / 5, 3 / 10, 4 / 5, 8 / 9, 1.0, 1.0)

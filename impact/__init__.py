@@ -3,9 +3,9 @@
 Pure physics on numbers and arrays (numpy only), batch-native over N balls, SI units.
 """
 
-from impact.contact import ContactResult, collide, hit
-from impact.geometry import face_orientation, swing_velocity
-from impact.racket import (
+from .contact import ContactResult, collide, hit
+from .geometry import face_orientation, swing_velocity
+from .racket import (
     SWINGWEIGHT_AXIS_M,
     Racket,
     apparent_cor,

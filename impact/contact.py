@@ -18,7 +18,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from impact.racket import Racket, racket_inverse_masses
+from .racket import Racket, racket_inverse_masses
 
 __all__ = ["ContactResult", "collide", "hit"]
 

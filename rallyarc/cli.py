@@ -51,8 +51,8 @@ def _emit(data, as_json, lines):
 
 
 def _air_density(air_density, altitude, temperature, pressure, humidity):
-    from flight.air import air_density as weather_density
-    from flight.air import isa_density, isa_temperature_pressure
+    from rallyarc.flight.air import air_density as weather_density
+    from rallyarc.flight.air import isa_density, isa_temperature_pressure
 
     if air_density is not None:
         return units.number(air_density, "--air-density", 0.0, 5.0)
@@ -130,8 +130,8 @@ def feed(
     Ball machines can injure: keep everyone out of the machine's line of fire, start at low feed
     speeds, and follow the venue's rules and qualified coaching practice.
     """
-    from flight.aero import AERO_MODELS
     from rallyarc.feed import simulate_feed
+    from rallyarc.flight.aero import AERO_MODELS
 
     if aero is not None and aero not in AERO_MODELS:
         raise InputError(
@@ -174,7 +174,7 @@ def feed(
 
 
 def _surface(preset, friction, restitution, option_names=("--friction", "--restitution")):
-    from bounce.contact import Surface
+    from rallyarc.bounce.contact import Surface
 
     if preset is not None:
         if friction is not None or restitution is not None:
@@ -196,7 +196,7 @@ def _surface(preset, friction, restitution, option_names=("--friction", "--resti
 @click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
 def surface(friction, restitution, preset, temperature, as_json):
     """Court pace rating of a surface, by simulating the ITF CS 01/02 test impact."""
-    from bounce.pace import rate_surface
+    from rallyarc.bounce.pace import rate_surface
 
     if preset is None and friction is None and restitution is None:
         preset = "hard_medium"
@@ -247,7 +247,7 @@ def surface(friction, restitution, preset, temperature, as_json):
 @click.option("--json", "as_json", is_flag=True, help="Print a JSON object.")
 def bounce_cmd(speed, angle, spin, surface_name, friction, restitution, ball, as_json):
     """The ball after one bounce, in the bounce's frame (x along the ball's horizontal travel)."""
-    from bounce.contact import bounce
+    from rallyarc.bounce.contact import bounce
     from rallyarc.feed import ball_params
 
     if surface_name is None and friction is None and restitution is None:
@@ -508,7 +508,7 @@ def _write_compare(result, records, folder, step):
     written.append(export.write_frame(folder / "trajectories.csv", table))
     written.append(export.write_frame(folder / "trajectories.parquet", table))
     try:
-        from viz import plots, scene
+        from rallyarc.viz import plots, scene
     except ImportError:  # the figures need the viz package
         return written
     written.append(plots.save_figure(plots.side_view(result), folder / "side_view.png"))
@@ -864,7 +864,7 @@ def _write_drill(d, sheet, results, data, folder, step, speed_units):
 
     from rallyarc import export
     from rallyarc.drill import SAFETY
-    from viz.drill_sheet import drill_sheet
+    from rallyarc.viz.drill_sheet import drill_sheet
 
     frames, paths = [], {}
     for idx, aim_result in results:

@@ -99,7 +99,7 @@ def write_outputs(run, summary, folder):
     """Write the tables, the summary and the figures of a run into ``folder`` (atomic writes);
     returns the paths written."""
     from rallyarc import export
-    from viz import rally_plots
+    from rallyarc.viz import rally_plots
 
     figures = {
         "landing_heatmaps.png": rally_plots.landing_heatmaps(run.shots, summary),

@@ -110,7 +110,7 @@ def _shots(sc, strokes, incoming, scatter, seed):
 
 
 def _save(fig, path):
-    from viz import plots
+    from rallyarc.viz import plots
 
     try:
         return plots.save_figure(fig, path)
@@ -137,7 +137,7 @@ def plot_side(scenario, stroke_names, ball, racket, air, surface_name, receiver_
               seed, out, force):  # fmt: skip
     """Height against distance down the court for each stroke of SCENARIO (default demo)."""
     from rallyarc import export
-    from viz import plots
+    from rallyarc.viz import plots
 
     path = _figure_path(out)
     export.check_targets([path], force)
@@ -157,7 +157,7 @@ def plot_top(scenario, stroke_names, ball, racket, air, surface_name, receiver_p
     """The court from above with each stroke's path and landing; with --scatter, the spread of
     landings as 2-sigma ellipses."""
     from rallyarc import export
-    from viz import plots
+    from rallyarc.viz import plots
 
     path = _figure_path(out)
     export.check_targets([path], force)
@@ -242,7 +242,7 @@ def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, bal
     """What one parameter changes: net clearance, depth, bounce apex and height at the
     receiver's plane against the swept value, for one stroke of SCENARIO."""
     from rallyarc import export, sweep
-    from viz import plots
+    from rallyarc.viz import plots
 
     path = _figure_path(out)
     keys = tuple(k.strip() for k in metrics.split(",") if k.strip())
@@ -298,7 +298,7 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
     """A success window: outcome (in, net, long, wide) over a grid of two parameters, with the
     margins to each edge, for one stroke of SCENARIO."""
     from rallyarc import export, sweep
-    from viz import plots
+    from rallyarc.viz import plots
 
     path = _figure_path(out)
     export.check_targets([path], force)
@@ -357,7 +357,7 @@ def scene_cmd(scenario, stroke_names, ball, racket, air, surface_name, receiver_
     bounce and apex. Rendered off screen to PNG; --export writes a self-contained HTML page (any
     web browser, no Python) or a glTF file; --show opens a window."""
     from rallyarc import export
-    from viz import scene
+    from rallyarc.viz import scene
 
     png = _figure_path(out, "--out", (".png",))
     cameras = list(scene.CAMERAS) if camera == "all" else [camera]

@@ -259,7 +259,7 @@ SCHEMAS = {
 
 
 def _package_dir(kind):
-    return resources.files("configs") / kind
+    return resources.files("rallyarc.configs") / kind
 
 
 def preset_names(kind):

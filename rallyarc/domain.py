@@ -11,13 +11,13 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from bounce.contact import Surface
-from flight.aero import get_aero_model
-from flight.air import air_density, isa_temperature_pressure
-from flight.forces import FlightParams
-from flight.integrate import apex, fly, ground_contact
-from impact.racket import Racket
 from rallyarc import config
+from rallyarc.bounce.contact import Surface
+from rallyarc.flight.aero import get_aero_model
+from rallyarc.flight.air import air_density, isa_temperature_pressure
+from rallyarc.flight.forces import FlightParams
+from rallyarc.flight.integrate import apex, fly, ground_contact
+from rallyarc.impact.racket import Racket
 from rallyarc.units import KMH, RPM
 
 #: Drop height of the ITF rebound test, to the bottom of the ball [m] (ITF Rules, Appendix I).

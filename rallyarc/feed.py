@@ -4,11 +4,11 @@ from __future__ import annotations
 
 import numpy as np
 
-from flight.aero import get_aero_model
-from flight.forces import FlightParams
-from flight.integrate import PlaneEvent, fly, ground_contact
 from rallyarc import config
 from rallyarc.court import net_height
+from rallyarc.flight.aero import get_aero_model
+from rallyarc.flight.forces import FlightParams
+from rallyarc.flight.integrate import PlaneEvent, fly, ground_contact
 
 
 def ball_params(ball_name="itf_type2"):

@@ -18,11 +18,11 @@ from __future__ import annotations
 import numpy as np
 from scipy.integrate import solve_ivp
 
-from bounce.contact import bounce
-from flight.forces import acceleration
-from impact.contact import hit
-from impact.geometry import face_orientation, swing_velocity
 from rallyarc import court
+from rallyarc.bounce.contact import bounce
+from rallyarc.flight.forces import acceleration
+from rallyarc.impact.contact import hit
+from rallyarc.impact.geometry import face_orientation, swing_velocity
 from rallyarc.shot import T_MAX, judge_landing
 
 #: The reference integrator's settings (tight enough that its own error is far below 1 µm).

@@ -18,11 +18,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from bounce.contact import bounce
-from flight.integrate import PlaneEvent, apex, fly, ground_contact, net_plane
-from impact.contact import hit
-from impact.geometry import face_orientation, swing_velocity
 from rallyarc import court
+from rallyarc.bounce.contact import bounce
+from rallyarc.flight.integrate import PlaneEvent, apex, fly, ground_contact, net_plane
+from rallyarc.impact.contact import hit
+from rallyarc.impact.geometry import face_orientation, swing_velocity
 from rallyarc.units import RPM
 
 OUTCOMES = ("in", "net", "long", "wide", "out", "miss")

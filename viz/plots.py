@@ -23,7 +23,7 @@ from matplotlib.text import Text
 
 from rallyarc import court
 from rallyarc.export import atomic_write
-from viz import palette
+from rallyarc.viz import palette
 
 #: Metrics a sweep can show: label on the axis, unit, factor from the metric's SI value, and
 #: the line drawn at zero (None for no line).

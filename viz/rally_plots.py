@@ -19,8 +19,8 @@ from matplotlib.patches import Patch, Rectangle
 
 from rallyarc import court
 from rallyarc.export import atomic_write
-from viz import palette
-from viz.plots import draw_court_lines
+from rallyarc.viz import palette
+from rallyarc.viz.plots import draw_court_lines
 
 _DPI = 120
 #: Most points drawn per panel of the spin exchange (a random subset beyond it, fixed seed).

@@ -20,8 +20,8 @@ import numpy as np
 
 from rallyarc import court
 from rallyarc.export import atomic_write
-from viz import palette
-from viz.plots import display_label, drawn, variant_groups
+from rallyarc.viz import palette
+from rallyarc.viz.plots import display_label, drawn, variant_groups
 
 #: Camera presets: (position, focal point, view up) in the court frame [m].
 CAMERAS = {
@@ -285,7 +285,7 @@ def render_scene(
 def _export(plotter, path):
     """glTF 2.0 with its buffers inline (.gltf), or a self-contained HTML page (.html)."""
     if str(path).lower().endswith(".html"):
-        from viz.scene_html import page
+        from rallyarc.viz.scene_html import page
 
         info = plotter._rallyarc_page
         text = page(plotter, info["title"], info["legend"], info["markers"], CAMERAS,

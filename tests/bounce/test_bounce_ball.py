@@ -5,8 +5,8 @@ import doctest
 import numpy as np
 import pytest
 
-import bounce.ball
-from bounce.ball import (
+import rallyarc.bounce.ball
+from rallyarc.bounce.ball import (
     MAX_ALPHA,
     SOLID_SPHERE_ALPHA,
     THIN_SHELL_ALPHA,
@@ -105,5 +105,5 @@ def test_kinetic_energy_per_unit_mass_by_hand():
 
 
 def test_ball_docstring_examples():
-    failures, _ = doctest.testmod(bounce.ball, verbose=False)
+    failures, _ = doctest.testmod(rallyarc.bounce.ball, verbose=False)
     assert failures == 0

@@ -5,8 +5,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from bounce.ball import thick_shell_alpha
-from bounce.contact import Surface, bounce, critical_angle
+from rallyarc.bounce.ball import thick_shell_alpha
+from rallyarc.bounce.contact import Surface, bounce, critical_angle
 
 R = 0.0335
 

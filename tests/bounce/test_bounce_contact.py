@@ -5,7 +5,7 @@ import math
 import numpy as np
 import pytest
 
-from bounce.contact import (
+from rallyarc.bounce.contact import (
     DEFAULT_REFERENCE_SPEED_MPS,
     Bounce2D,
     BounceResult,

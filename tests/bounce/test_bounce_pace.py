@@ -6,9 +6,9 @@ import math
 import numpy as np
 import pytest
 
-import bounce.pace
-from bounce.contact import DEFAULT_REFERENCE_SPEED_MPS, Surface, normal_restitution
-from bounce.pace import (
+import rallyarc.bounce.pace
+from rallyarc.bounce.contact import DEFAULT_REFERENCE_SPEED_MPS, Surface, normal_restitution
+from rallyarc.bounce.pace import (
     CATEGORY_NAMES,
     PACE_TEST_ANGLE_RAD,
     PACE_TEST_MAX_SPIN_RAD_S,
@@ -223,5 +223,5 @@ def test_rate_surface_with_speed_dependent_restitution_measures_e_at_test_speed(
 
 
 def test_pace_docstring_examples():
-    failures, _ = doctest.testmod(bounce.pace, verbose=False)
+    failures, _ = doctest.testmod(rallyarc.bounce.pace, verbose=False)
     assert failures == 0

@@ -5,8 +5,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from hypothesis.extra import numpy as hnp
 
-from bounce.ball import kinetic_energy_per_unit_mass
-from bounce.contact import Surface, bounce
+from rallyarc.bounce.ball import kinetic_energy_per_unit_mass
+from rallyarc.bounce.contact import Surface, bounce
 
 _finite = {"allow_nan": False, "allow_infinity": False}
 

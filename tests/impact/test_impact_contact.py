@@ -5,8 +5,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from impact.contact import collide, hit
-from impact.racket import Racket, effective_mass, racket_inverse_masses, tangential_inverse_mass
+from rallyarc.impact.contact import collide, hit
+from rallyarc.impact.racket import (
+    Racket,
+    effective_mass,
+    racket_inverse_masses,
+    tangential_inverse_mass,
+)
 
 M_BALL, R_BALL, ALPHA = 0.057, 0.0335, 0.55
 ZERO_K = np.zeros((2, 2))

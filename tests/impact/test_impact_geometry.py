@@ -3,7 +3,7 @@
 import numpy as np
 import pytest
 
-from impact.geometry import face_orientation, swing_velocity
+from rallyarc.impact.geometry import face_orientation, swing_velocity
 
 
 def test_face_orientation_unit_and_orthogonal():

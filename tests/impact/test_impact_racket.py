@@ -3,7 +3,7 @@
 import numpy as np
 import pytest
 
-from impact.racket import (
+from rallyarc.impact.racket import (
     Racket,
     apparent_cor,
     effective_mass,

@@ -173,7 +173,7 @@ def test_drill_command_writes_every_format_and_refuses_to_overwrite(tmp_path):
 def test_bad_drill_files_name_the_key(tmp_path):
     from importlib import resources
 
-    text = (resources.files("configs") / "drills" / "demo_drill.toml").read_text()
+    text = (resources.files("rallyarc.configs") / "drills" / "demo_drill.toml").read_text()
     both = tmp_path / "both.toml"
     both.write_text(text.replace("speed_kmh = 55.0", "speed_kmh = 55.0\nheight_at_player_m = 1.0"))
     run = CliRunner().invoke(main, ["drill", str(both)])

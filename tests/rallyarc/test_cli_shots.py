@@ -151,7 +151,7 @@ def test_allowed_range_is_named():
 def test_real_process_prints_one_line_on_stderr(tmp_path):
     path = _bad(tmp_path, "bad.toml", SURFACE.replace("0.8", "1.2"))
     proc = subprocess.run(
-        [sys.executable, "-m", "rallyarc.cli", "shot", "--surface", str(path)],
+        [sys.executable, "-P", "-m", "rallyarc.cli", "shot", "--surface", str(path)],
         capture_output=True,
         text=True,
     )

@@ -7,9 +7,9 @@ import pytest
 from scipy.integrate import solve_ivp
 from scipy.optimize import brentq
 
-from bounce.pace import rate_surface
-from flight.forces import acceleration
 from rallyarc import config, court, domain
+from rallyarc.bounce.pace import rate_surface
+from rallyarc.flight.forces import acceleration
 from rallyarc.shot import BallState, judge_landing, launch, play
 from rallyarc.units import KMH, RPM
 

@@ -12,7 +12,7 @@ from PIL import Image
 from rallyarc import domain, sweep
 from rallyarc.cli import main
 from rallyarc.shot import BallState, launch, play
-from viz import palette, plots, scene
+from rallyarc.viz import palette, plots, scene
 
 RPM = np.pi / 30
 
