@@ -18,7 +18,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from rallyarc import court
+from rallyarc import court, kinematics, units
 from rallyarc.shot import BallState, Swing, launch, simulate
 from rallyarc.units import KMH, RPM
 
@@ -318,12 +318,10 @@ def load_machine(name):
 
 def _feed_state(origin, speed, elevation, azimuth, topspin):
     """Launch states toward +x (chain frame) from speed, elevation, azimuth and topspin."""
-    ce = np.cos(elevation)
-    d = np.stack([ce * np.cos(azimuth), ce * np.sin(azimuth), np.sin(elevation)], axis=1)
-    horizontal = np.stack([np.cos(azimuth), np.sin(azimuth), np.zeros_like(azimuth)], axis=1)
-    axis = np.cross([0.0, 0.0, 1.0], horizontal)
-    pos = np.broadcast_to(origin, d.shape)
-    return BallState(np.array(pos), speed[:, None] * d, topspin[:, None] * axis)
+    velocity = kinematics.velocity(speed, elevation, azimuth)
+    spin = kinematics.spin(topspin, 0.0, azimuth)
+    pos = np.broadcast_to(origin, velocity.shape)
+    return BallState(np.array(pos), velocity, spin)
 
 
 def aim_feed(
@@ -378,8 +376,8 @@ def aim_feed(
         fixed_speed = np.broadcast_to(np.asarray(speed, float), (n,)).copy()
         bad = (fixed_speed < machine.speed_min - 1e-9) | (fixed_speed > machine.speed_max + 1e-9)
         reason_pre[bad & (reason_pre == "")] = (
-            f"speed outside the machine's range ({machine.speed_min * 3.6:.0f}-"
-            f"{machine.speed_max * 3.6:.0f} km/h)"
+            f"speed outside the machine's range ({machine.speed_min * units.KMH_PER_MPS:.0f}-"
+            f"{machine.speed_max * units.KMH_PER_MPS:.0f} km/h)"
         )
         fixed_speed = np.clip(fixed_speed, machine.speed_min, machine.speed_max)
     else:

@@ -21,6 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from rallyarc import kinematics
 from rallyarc.shot import BallState, Swing, simulate
 from rallyarc.units import KMH, RPM
 
@@ -131,13 +132,10 @@ class RandomShots:
         speed = rng.uniform(50.0, 110.0, size) * KMH
         descent = np.radians(rng.uniform(-5.0, 20.0, size))
         heading = np.pi + np.radians(rng.uniform(-12.0, 12.0, size))
-        hx, hy = np.cos(heading), np.sin(heading)
-        vel = speed[:, None] * np.stack(
-            (np.cos(descent) * hx, np.cos(descent) * hy, -np.sin(descent)), axis=1
-        )
+        vel = kinematics.velocity(speed, -descent, heading)
         top = rng.uniform(-1500.0, 3000.0, size) * RPM
         side = rng.uniform(-600.0, 600.0, size) * RPM
-        spin = np.stack((-hy * top, hx * top, side), axis=1)  # topspin axis z x heading
+        spin = kinematics.spin(top, side, heading)
         # serves: the preset's toss with its contact moved a little and its height varied
         toss = [st.toss for st in self.serves]
         contact = np.array([t.contact for t in toss])[s] + rng.uniform(-0.1, 0.1, (size, 3))

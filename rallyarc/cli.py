@@ -15,6 +15,7 @@ import numpy as np
 
 from rallyarc import config, units
 from rallyarc.errors import InputError
+from rallyarc.units import KMH_PER_MPS
 
 
 class _Group(click.Group):
@@ -155,7 +156,7 @@ def feed(
         raise InputError("--from: the release height Z must be above the ball's radius")
     net, land = result["net_crossing"], result["landing"]
     lines = [
-        f"fed ball: {result['inputs']['speed_mps'] * 3.6:.1f} km/h, aero "
+        f"fed ball: {result['inputs']['speed_mps'] * KMH_PER_MPS:.1f} km/h, aero "
         f"{result['inputs']['aero_model']}, air {result['inputs']['air_density_kgm3']:.4f} kg/m^3"
     ]
     if net:
@@ -168,7 +169,7 @@ def feed(
     if land:
         lines.append(
             f"landing:  x {land['x_m']:+.2f} m, y {land['y_m']:+.2f} m, t {land['t_s']:.3f} s, "
-            f"{land['speed_mps'] * 3.6:.1f} km/h at {land['angle_deg']:.1f} deg"
+            f"{land['speed_mps'] * KMH_PER_MPS:.1f} km/h at {land['angle_deg']:.1f} deg"
         )
     _emit(result, as_json, lines)
 
@@ -287,8 +288,9 @@ def bounce_cmd(speed, angle, spin, surface_name, friction, restitution, ball, as
     }
     word = "topspin" if spin_out >= 0 else "backspin"
     lines = [
-        f"in:   {v * 3.6:.1f} km/h at {math.degrees(theta):.1f} deg, spin {w / units.RPM:+.0f} rpm",
-        f"out:  vx {vx:.2f} m/s, vz {vz:.2f} m/s ({data['speed_mps'] * 3.6:.1f} km/h at "
+        f"in:   {v * KMH_PER_MPS:.1f} km/h at {math.degrees(theta):.1f} deg, "
+        f"spin {w / units.RPM:+.0f} rpm",
+        f"out:  vx {vx:.2f} m/s, vz {vz:.2f} m/s ({data['speed_mps'] * KMH_PER_MPS:.1f} km/h at "
         f"{data['angle_deg']:.1f} deg), {abs(data['spin_rpm']):.0f} rpm {word}",
         f"regime: {data['regime']}",
     ]
@@ -386,8 +388,9 @@ def shot(
     impact, net, landing, bounce and the ball at the receiver."""
     from dataclasses import replace
 
-    from rallyarc import domain, export
-    from rallyarc.report import comparison_table
+    from rallyarc import domain
+    from rallyarc.output import export
+    from rallyarc.output.tables import comparison_table
     from rallyarc.shot import BallState, play
 
     sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
@@ -424,7 +427,9 @@ def shot(
         if contact is not None:
             spec["position_m"] = list(units.point(contact, "--contact", -20.0, 20.0))
         if incoming_speed is not None:
-            spec["speed_kmh"] = units.speed(incoming_speed, "--incoming-speed", 0.0, 70.0) * 3.6
+            spec["speed_kmh"] = (
+                units.speed(incoming_speed, "--incoming-speed", 0.0, 70.0) * KMH_PER_MPS
+            )
         if incoming_spin is not None:
             spec["spin_rpm"] = units.number(incoming_spin, "--incoming-spin", -6000.0, 6000.0)
         incoming = BallState.of(*domain.incoming_state(spec))
@@ -457,8 +462,9 @@ def compare(scenario, ball, racket, air, surface_name, receiver_plane, out_dir, 
     """Every stroke variant of a scenario side by side (default: the demo scenario)."""
     from pathlib import Path
 
-    from rallyarc import domain, export
-    from rallyarc.report import comparison_table
+    from rallyarc import domain
+    from rallyarc.output import export
+    from rallyarc.output.tables import comparison_table
     from rallyarc.shot import BallState, play
 
     sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
@@ -498,7 +504,7 @@ def compare(scenario, ball, racket, air, surface_name, receiver_plane, out_dir, 
 
 
 def _write_compare(result, records, folder, step):
-    from rallyarc import export
+    from rallyarc.output import export
 
     written = [
         export.write_frame(folder / "shots.csv", result.to_frame()),
@@ -583,7 +589,7 @@ def _target(text, option="--target"):
 
 
 def _aim_outputs(aim, csv_path, dt):
-    from rallyarc import export
+    from rallyarc.output import export
 
     if csv_path is not None:
         export.write_frame(csv_path, aim.trajectory_frame(dt))
@@ -633,8 +639,9 @@ def aim_stroke_cmd(
     force,
 ):
     """The swing of a stroke style that lands the ball on --target."""
-    from rallyarc import domain, export
+    from rallyarc import domain
     from rallyarc.aim import aim_stroke
+    from rallyarc.output import export
     from rallyarc.shot import BallState
 
     sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
@@ -664,7 +671,7 @@ def aim_stroke_cmd(
     record = res.result.record(0)
     s = res.settings
     swing = {
-        "head_speed_kmh": float(res.result.swing.head_speed[0] * 3.6),
+        "head_speed_kmh": float(res.result.swing.head_speed[0] * KMH_PER_MPS),
         "face_tilt_deg": math.degrees(res.result.swing.face_tilt[0]),
         "swing_direction_deg": math.degrees(res.result.swing.swing_direction[0]),
         "face_azimuth_deg": math.degrees(res.result.swing.face_azimuth[0]),
@@ -686,8 +693,8 @@ def aim_stroke_cmd(
         f"swing:   head speed {swing['head_speed_kmh']:.1f} km/h, path "
         f"{swing['swing_path_deg']:+.1f} deg, face tilt {swing['face_tilt_deg']:+.2f} deg, "
         f"direction {swing['swing_direction_deg']:+.2f} deg",
-        f"ball:    {m['impact_speed_mps'][0] * 3.6:.0f} km/h at {m['impact_launch_deg'][0]:+.1f}"
-        f" deg, {m['impact_topspin_rpm'][0]:+.0f} rpm topspin",
+        f"ball:    {m['impact_speed_mps'][0] * KMH_PER_MPS:.0f} km/h at "
+        f"{m['impact_launch_deg'][0]:+.1f} deg, {m['impact_topspin_rpm'][0]:+.0f} rpm topspin",
         f"lands:   x {m['land_x_m'][0]:+.2f}, y {m['land_y_m'][0]:+.2f} "
         f"({data['miss_m'] * 100:.1f} cm from the target), {m['outcome'][0]}",
         f"net:     clearance {m['net_clearance_m'][0]:+.2f} m; " + _receiver_words(m),
@@ -748,8 +755,8 @@ def aim_feed_cmd(
     Ball machines can injure: nobody in the machine's line of fire, start at low feed speeds,
     and follow the venue's rules and qualified coaching practice.
     """
-    from rallyarc import export
     from rallyarc.aim import aim_feed, load_machine
+    from rallyarc.output import export
 
     sc = _scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
     mach = load_machine(machine)
@@ -782,7 +789,7 @@ def aim_feed_cmd(
         "target_m": [tx, ty],
         "reachable": bool(res.reachable[0]),
         "reason": str(res.reason[0]),
-        "speed_kmh": float(s["speed"][0] * 3.6),
+        "speed_kmh": float(s["speed"][0] * KMH_PER_MPS),
         "speed_mph": float(s["speed"][0] / units.MPH),
         "elevation_deg": math.degrees(s["elevation"][0]),
         "aim_left_deg": aim_left,
@@ -830,8 +837,8 @@ def drill(drill_file, out_dir, speed_units, dt, force, as_json):
     """Solve every ball of a drill file and print (or write) its drill sheet."""
     from pathlib import Path
 
-    from rallyarc import export
     from rallyarc.drill import SAFETY, load_drill, sheet_lines, solve_drill
+    from rallyarc.output import export
 
     d = load_drill(drill_file)
     step = units.number(dt, "--dt", 0.0005, 0.1)
@@ -862,8 +869,8 @@ def drill(drill_file, out_dir, speed_units, dt, force, as_json):
 def _write_drill(d, sheet, results, data, folder, step, speed_units):
     import pandas as pd
 
-    from rallyarc import export
     from rallyarc.drill import SAFETY
+    from rallyarc.output import export
     from rallyarc.viz.drill_sheet import drill_sheet
 
     frames, paths = [], {}

@@ -63,7 +63,7 @@ def register(group):
     def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as_json):
         """Play a pattern pair (a preset name or a TOML file) over many rallies with execution
         scatter: per-shot table, summary and figures."""
-        from rallyarc import export
+        from rallyarc.output import export
         from rallyarc.rally import load_patterns, play_rallies, summarize, summary_lines
 
         n = _whole(rallies, "--rallies", 1, MAX_RALLIES)
@@ -98,7 +98,7 @@ def register(group):
 def write_outputs(run, summary, folder):
     """Write the tables, the summary and the figures of a run into ``folder`` (atomic writes);
     returns the paths written."""
-    from rallyarc import export
+    from rallyarc.output import export
     from rallyarc.viz import rally_plots
 
     figures = {

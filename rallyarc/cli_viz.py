@@ -136,7 +136,7 @@ def plot():
 def plot_side(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter,
               seed, out, force):  # fmt: skip
     """Height against distance down the court for each stroke of SCENARIO (default demo)."""
-    from rallyarc import export
+    from rallyarc.output import export
     from rallyarc.viz import plots
 
     path = _figure_path(out)
@@ -156,7 +156,7 @@ def plot_top(scenario, stroke_names, ball, racket, air, surface_name, receiver_p
              seed, out, force):  # fmt: skip
     """The court from above with each stroke's path and landing; with --scatter, the spread of
     landings as 2-sigma ellipses."""
-    from rallyarc import export
+    from rallyarc.output import export
     from rallyarc.viz import plots
 
     path = _figure_path(out)
@@ -241,7 +241,8 @@ def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, bal
                surface_name, receiver_plane, out, force):  # fmt: skip
     """What one parameter changes: net clearance, depth, bounce apex and height at the
     receiver's plane against the swept value, for one stroke of SCENARIO."""
-    from rallyarc import export, sweep
+    from rallyarc import sweep
+    from rallyarc.output import export
     from rallyarc.viz import plots
 
     path = _figure_path(out)
@@ -297,7 +298,8 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
                 surface_name, receiver_plane, out, force):  # fmt: skip
     """A success window: outcome (in, net, long, wide) over a grid of two parameters, with the
     margins to each edge, for one stroke of SCENARIO."""
-    from rallyarc import export, sweep
+    from rallyarc import sweep
+    from rallyarc.output import export
     from rallyarc.viz import plots
 
     path = _figure_path(out)
@@ -356,7 +358,7 @@ def scene_cmd(scenario, stroke_names, ball, racket, air, surface_name, receiver_
     """The shots of SCENARIO in 3D: court, net, paths as tubes, markers at contact, net crossing,
     bounce and apex. Rendered off screen to PNG; --export writes a self-contained HTML page (any
     web browser, no Python) or a glTF file; --show opens a window."""
-    from rallyarc import export
+    from rallyarc.output import export
     from rallyarc.viz import scene
 
     png = _figure_path(out, "--out", (".png",))

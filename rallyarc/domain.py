@@ -11,7 +11,7 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from rallyarc import config
+from rallyarc import config, kinematics
 from rallyarc.bounce.contact import Surface
 from rallyarc.flight.aero import get_aero_model
 from rallyarc.flight.air import air_density, isa_temperature_pressure
@@ -314,13 +314,11 @@ def incoming_state(incoming):
     speed = incoming["speed_kmh"] * KMH
     heading = math.radians(incoming.get("azimuth_deg", 180.0))
     descent = math.radians(incoming["descent_deg"])
-    horizontal = np.array([math.cos(heading), math.sin(heading), 0.0])
-    velocity = speed * (math.cos(descent) * horizontal + np.array([0, 0, -math.sin(descent)]))
-    topspin_axis = np.cross([0.0, 0.0, 1.0], horizontal)
-    spin = (
-        incoming.get("spin_rpm", 0.0) * topspin_axis
-        + np.array([0.0, 0.0, incoming.get("sidespin_rpm", 0.0)])
-    ) * RPM
+    velocity = kinematics.velocity(speed, -descent, heading)[0]
+    spin = kinematics.spin(
+        incoming.get("spin_rpm", 0.0), incoming.get("sidespin_rpm", 0.0), heading
+    )
+    spin = spin[0] * RPM
     return np.asarray(incoming["position_m"], float), velocity, spin
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from rallyarc import config
+from rallyarc import config, kinematics
 from rallyarc.court import net_height
 from rallyarc.flight.aero import get_aero_model
 from rallyarc.flight.forces import FlightParams
@@ -20,17 +20,7 @@ def ball_params(ball_name="itf_type2"):
 
 def launch_velocity(speed, elevation, azimuth):
     """Velocity vectors (N, 3) [m/s] from speed [m/s], elevation and azimuth [rad] (toward +x)."""
-    speed, elevation, azimuth = np.broadcast_arrays(
-        *(np.atleast_1d(np.asarray(a, float)) for a in (speed, elevation, azimuth))
-    )
-    return np.stack(
-        [
-            speed * np.cos(elevation) * np.cos(azimuth),
-            speed * np.cos(elevation) * np.sin(azimuth),
-            speed * np.sin(elevation),
-        ],
-        axis=1,
-    )
+    return kinematics.velocity(speed, elevation, azimuth)
 
 
 def simulate_feed(

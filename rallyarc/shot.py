@@ -23,6 +23,7 @@ from rallyarc.bounce.contact import bounce
 from rallyarc.flight.integrate import PlaneEvent, apex, fly, ground_contact, net_plane
 from rallyarc.impact.contact import hit
 from rallyarc.impact.geometry import face_orientation, swing_velocity
+from rallyarc.kinematics import topspin_sidespin
 from rallyarc.units import RPM
 
 OUTCOMES = ("in", "net", "long", "wide", "out", "miss")
@@ -94,18 +95,6 @@ def serve_states(strokes):
     vel = np.array([s.toss.velocity() for s in strokes], float)
     spin = np.array([[0.0, s.toss.spin_rpm * RPM, 0.0] for s in strokes], float)
     return BallState(pos, vel, spin)
-
-
-def topspin_sidespin(velocity, spin):
-    """Topspin [rad/s] (spin about z x the horizontal travel direction; negative: backspin)
-    and sidespin [rad/s] (about +z) of balls ``(N, 3)``; the definitions of the shot metrics."""
-    horizontal = velocity[:, :2]
-    norm = np.linalg.norm(horizontal, axis=1)
-    safe = np.where(norm > 0, norm, 1.0)
-    dx, dy = horizontal[:, 0] / safe, horizontal[:, 1] / safe
-    # z x (dx, dy, 0) = (-dy, dx, 0)
-    top = -dy * spin[:, 0] + dx * spin[:, 1]
-    return np.where(norm > 0, top, spin[:, 1]), spin[:, 2]
 
 
 def _angle_below(velocity):

@@ -26,6 +26,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from rallyarc import kinematics
 from rallyarc.shot import BallState, ShotResult, launch, play
 from rallyarc.units import KMH, RPM
 
@@ -130,12 +131,8 @@ class Launch:
         )
         speed, angle, topspin = (np.atleast_1d(a).ravel() for a in (speed, angle, topspin))
         azimuth, side = np.atleast_1d(azimuth).ravel(), np.atleast_1d(side).ravel()
-        horizontal = np.stack([np.cos(azimuth), np.sin(azimuth), np.zeros_like(azimuth)], 1)
-        velocity = speed[:, None] * (
-            np.cos(angle)[:, None] * horizontal + np.sin(angle)[:, None] * [0.0, 0.0, 1.0]
-        )
-        topspin_axis = np.stack([-horizontal[:, 1], horizontal[:, 0], np.zeros_like(azimuth)], 1)
-        spin = topspin[:, None] * topspin_axis + side[:, None] * [0.0, 0.0, 1.0]
+        velocity = kinematics.velocity(speed, angle, azimuth)
+        spin = kinematics.spin(topspin, side, azimuth)
         return BallState.of(self.position, velocity, spin, n=speed.size)
 
     def value(self, parameter):

@@ -7,7 +7,10 @@ import re
 
 from rallyarc.errors import InputError
 
-KMH = 1.0 / 3.6
+#: Kilometres per hour per metre per second; multiply a speed in m/s by it for km/h.
+KMH_PER_MPS = 3.6
+#: One km/h in m/s; multiply a speed in km/h by it for m/s.
+KMH = 1.0 / KMH_PER_MPS
 MPH = 0.44704
 RPM = math.pi / 30.0
 
@@ -38,7 +41,7 @@ def speed(text, option, low=0.0, high=100.0):
     if not math.isfinite(value) or not (low <= value <= high):
         raise InputError(
             f"{option}: must be from {low:g} to {high:g} m/s "
-            f"({low * 3.6:g} to {high * 3.6:g} km/h), got {text}"
+            f"({low * KMH_PER_MPS:g} to {high * KMH_PER_MPS:g} km/h), got {text}"
         )
     return value
 

@@ -21,8 +21,8 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Ellipse, Patch, Rectangle
 from matplotlib.text import Text
 
-from rallyarc import court
-from rallyarc.export import atomic_write
+from rallyarc import court, units
+from rallyarc.output.export import atomic_write
 from rallyarc.viz import palette
 
 #: Metrics a sweep can show: label on the axis, unit, factor from the metric's SI value, and
@@ -36,10 +36,10 @@ METRICS = {
     "receiver_height_m": ("height at the receiver's plane", "m", 1.0, None),
     "flight_peak_m": ("highest point before the bounce", "m", 1.0, None),
     "land_x_m": ("landing point along the court", "m", 1.0, None),
-    "impact_speed_mps": ("ball speed off the racket", "km/h", 3.6, None),
+    "impact_speed_mps": ("ball speed off the racket", "km/h", units.KMH_PER_MPS, None),
     "impact_launch_deg": ("launch angle", "deg", 1.0, None),
     "impact_topspin_rpm": ("topspin off the racket", "rpm", 1.0, None),
-    "bounce_speed_out_mps": ("ball speed after the bounce", "km/h", 3.6, None),
+    "bounce_speed_out_mps": ("ball speed after the bounce", "km/h", units.KMH_PER_MPS, None),
 }
 DEFAULT_SWEEP_METRICS = ("net_clearance_m", "land_depth_m", "bounce_apex_m", "receiver_height_m")
 #: A serve's depth and side margin are to the service box's lines.

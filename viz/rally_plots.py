@@ -18,7 +18,7 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Patch, Rectangle
 
 from rallyarc import court
-from rallyarc.export import atomic_write
+from rallyarc.output.export import atomic_write
 from rallyarc.viz import palette
 from rallyarc.viz.plots import draw_court_lines
 

@@ -19,7 +19,7 @@ from pathlib import Path
 import numpy as np
 
 from rallyarc import court
-from rallyarc.export import atomic_write
+from rallyarc.output.export import atomic_write
 from rallyarc.viz import palette
 from rallyarc.viz.plots import display_label, drawn, variant_groups
 

@@ -9,11 +9,12 @@ import pandas as pd
 import pytest
 from click.testing import CliRunner
 
-from rallyarc import domain, export
+from rallyarc import domain
 from rallyarc.aim import aim_feed, aim_stroke, load_machine
 from rallyarc.cli import main
 from rallyarc.errors import InputError
 from rallyarc.feed import simulate_feed
+from rallyarc.output import export
 from rallyarc.shot import BallState, Swing, simulate
 from rallyarc.units import KMH
 

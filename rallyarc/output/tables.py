@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-KMH_PER_MPS = 3.6
+from rallyarc.units import KMH_PER_MPS
 
 #: (row label, metric key, scale, format). Rows with a None key are section headings.
 ROWS = (
