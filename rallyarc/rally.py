@@ -388,10 +388,13 @@ def meet(result, balls, receiver):
     )
     if n == 0:
         return empty
-    idx, after = result.flights[1]
-    col = np.searchsorted(idx, balls)
-    if not np.array_equal(idx[col], balls):
+    if result.after_bounce is None:
         raise ValueError("every ball must have bounced")
+    after = result.after_bounce.flight
+    try:
+        col = result.after_bounce.columns(balls)
+    except ValueError:
+        raise ValueError("every ball must have bounced") from None
     traj = after.trajectory
     m = result.metrics
     t_b = m["bounce_t_s"][balls]

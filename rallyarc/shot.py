@@ -105,25 +105,71 @@ def _nan(n):
     return np.full(n, np.nan)
 
 
+@dataclass(frozen=True)
+class Phase:
+    """One flight phase of some of the shots of a :class:`ShotResult`.
+
+    ``shots`` ``(K,)`` are the indices (into the result) of the shots that have this phase, in
+    increasing order; ``flight`` is their :class:`rallyarc.flight.integrate.FlightResult`, ball
+    ``k`` of it being shot ``shots[k]``; ``end_t`` ``(K,)`` [s] is when each shot's drawn path
+    leaves this phase (the net, the ground or the receiver's plane). The flight itself may go on
+    past ``end_t`` (to the second bounce) so that the apex is found even beyond the receiver.
+    """
+
+    shots: np.ndarray
+    flight: object
+    end_t: np.ndarray
+
+    def columns(self, shots):
+        """Positions in this phase's flight of the result's shots ``shots`` ``(M,)``; a
+        ``ValueError`` if any of them has no such phase."""
+        shots = np.asarray(shots, int)
+        col = np.searchsorted(self.shots, shots)
+        if shots.size and (
+            np.any(col >= self.shots.size) or not np.array_equal(self.shots[col], shots)
+        ):
+            raise ValueError("every shot must have this phase")
+        return col
+
+
 @dataclass
 class ShotResult:
     """N whole shots: metrics per shot (``metrics``, a dict of ``(N,)`` arrays with units in
     their names) and the trajectories of each phase for dense output.
 
-    ``labels`` name the shots (stroke variant names); ``serve`` marks serves.
+    ``labels`` name the shots (stroke variant names); ``serve`` marks serves. The flight to the
+    first bounce is :attr:`before_bounce` (every shot), the flight after it
+    :attr:`after_bounce` (only the shots that bounced past the net; ``None`` if none did).
     """
 
     labels: np.ndarray
     serve: np.ndarray
     metrics: dict
-    flights: tuple
-    phase_end: tuple
+    before_bounce: Phase
+    after_bounce: Phase | None
     conditions: object
     incoming: BallState
     swing: Swing
 
     def __len__(self):
         return len(self.labels)
+
+    def end_t(self, i):
+        """When shot ``i``'s drawn path ends [s]: at the receiver's plane or the second bounce
+        if it bounced, else at the net or its landing."""
+        after = self.after_bounce
+        if after is not None:
+            k = np.searchsorted(after.shots, i)
+            if k < after.shots.size and after.shots[k] == i:
+                return float(after.end_t[k])
+        return float(self.before_bounce.end_t[i])
+
+    def phase_ends(self):
+        """Phase end times ``(N,)`` each: before the bounce, and after it (NaN: no bounce)."""
+        end1 = _nan(len(self))
+        if self.after_bounce is not None:
+            end1[self.after_bounce.shots] = self.after_bounce.end_t
+        return self.before_bounce.end_t, end1
 
     @property
     def outcome(self):
@@ -143,13 +189,12 @@ class ShotResult:
         and the phase index (0 before the bounce, 1 after, -1 outside the shot), ``(M, N)``.
         """
         times = np.asarray(times, float)
-        first, second = self.flights
-        pos, vel, spin = first.trajectory.sample(times)
-        end0, end1 = self.phase_end
+        pos, vel, spin = self.before_bounce.flight.trajectory.sample(times)
+        end0, end1 = self.phase_ends()
         phase = np.where(times[:, None] <= end0[None, :], 0, -1)
-        if second is not None:
-            idx, traj = second
-            p2, v2, s2 = traj.trajectory.sample(times)
+        if self.after_bounce is not None:
+            idx = self.after_bounce.shots
+            p2, v2, s2 = self.after_bounce.flight.trajectory.sample(times)
             after = (times[:, None] > end0[None, idx]) & (times[:, None] <= end1[None, idx])
             cols = idx[None, :].repeat(times.size, axis=0)
             rows = np.arange(times.size)[:, None].repeat(idx.size, axis=1)
@@ -162,7 +207,7 @@ class ShotResult:
     def path(self, i, dt=0.002):
         """One shot's path: times (M,), positions (M, 3) and phases (M,), with the contact,
         bounce and end points included exactly."""
-        end0, end1 = self.phase_end
+        end0, end1 = self.phase_ends()
         t_end = end1[i] if np.isfinite(end1[i]) else end0[i]
         times = np.union1d(np.arange(0.0, t_end, dt), [0.0, end0[i], t_end])
         pos, _, _, phase = self.sample(times)
@@ -170,7 +215,7 @@ class ShotResult:
         # the bounce point belongs to both phases
         if np.isfinite(end1[i]):
             k = int(np.searchsorted(times, end0[i]))
-            bounce_pt = self.flights[0].position[i]
+            bounce_pt = self.before_bounce.flight.position[i]
             times = np.insert(times, k + 1, end0[i])
             pos = np.insert(pos, k + 1, bounce_pt, axis=0)
             phase = np.insert(phase, k + 1, 1)
@@ -185,7 +230,7 @@ class ShotResult:
 
         if not dt > 0:
             raise ValueError("dt must be positive")
-        end0, end1 = self.phase_end
+        end0, end1 = self.phase_ends()
         t_end = np.nanmax(np.where(np.isfinite(end1), end1, end0))
         times = np.arange(0.0, t_end + 0.5 * dt, dt)
         pos, vel, spin, phase = self.sample(times)
@@ -573,14 +618,14 @@ def launch(
         m["bounce_second_y_m"][idx[twice]] = after.position[twice, 1]
         end1[idx] = np.where(rec.occurred, rec.t, after.t)
         m["bounce_apex_beyond_receiver"][idx] = top.occurred & rec.occurred & (top.t > rec.t)
-        second = (idx, after)
+        second = Phase(idx, after, end1[idx])
     m["receiver_reached"] = np.isfinite(m["receiver_height_m"])
     return ShotResult(
         labels=labels,
         serve=np.array(serve),
         metrics=m,
-        flights=(first, second),
-        phase_end=(end0, end1),
+        before_bounce=Phase(np.arange(n), first, end0),
+        after_bounce=second,
         conditions=conditions,
         incoming=incoming,
         swing=None,

@@ -118,15 +118,14 @@ def _path(result, i, dt=0.004):
 
 def _beyond_receiver(result, i, dt=0.004):
     """The recorded flight after the receiver's plane (to the second bounce), or None."""
-    second = result.flights[1]
-    end1 = result.phase_end[1][i]
-    if second is None or not np.isfinite(end1):
+    second = result.after_bounce
+    if second is None or i not in second.shots:
         return None
-    idx, after = second
-    k = np.flatnonzero(idx == i)
-    if not k.size or after.trajectory is None:
+    k = int(second.columns([i])[0])
+    end1 = float(second.end_t[k])
+    after = second.flight
+    if not np.isfinite(end1) or after.trajectory is None:
         return None
-    k = int(k[0])
     t_stop = float(after.t[k])
     if t_stop <= end1 + 1e-9:
         return None

@@ -177,7 +177,8 @@ def test_next_shot_starts_on_the_previous_path_rotated_to_the_other_end(write_pa
     replay = _replay(run)
     checked = 0
     for _name, (rows, res) in replay.items():
-        idx, after = res.flights[1]  # the flight after the bounce, to the second bounce
+        # the flight after the bounce, to the second bounce
+        idx, after = res.after_bounce.shots, res.after_bounce.flight
         for j, i in enumerate(rows):
             row = shots.loc[i]
             if row["result"] != "continues":
@@ -296,7 +297,7 @@ def test_no_ball_passes_through_the_net_or_the_ground(write_patterns):
     r = pat.players[0].conditions.ball.radius
     for name, (rows, res) in _replay(run).items():
         m = res.metrics
-        end0, end1 = res.phase_end
+        end0, end1 = res.phase_ends()
         t_end = np.where(np.isfinite(end1), end1, end0)
         times = np.linspace(0.0, float(t_end.max()), 1500)
         pos, _, _, phase = res.sample(times)
@@ -323,7 +324,7 @@ def test_no_ball_passes_through_the_net_or_the_ground(write_patterns):
         cont = shots.loc[rows, "result"].eq("continues").to_numpy()
         reply = shots.loc[rows, "reply_t_s"].to_numpy()
         assert (reply[cont] > m["bounce_t_s"][cont]).all()
-        idx, after = res.flights[1]
+        idx, after = res.after_bounce.shots, res.after_bounce.flight
         second = np.full(len(rows), np.nan)
         second[idx] = after.t
         assert (reply[cont] <= second[cont] + 1e-12).all()
