@@ -13,6 +13,7 @@ from importlib import resources
 from pathlib import Path
 
 from rallyarc.errors import InputError
+from rallyarc.flight.aero import AERO_MODELS
 
 
 @dataclass(frozen=True)
@@ -52,7 +53,8 @@ class Key:
         return f"a number from {self.low:g} to {self.high:g}"
 
 
-AERO_CHOICES = ("stepanek1988", "cross_lindsey2014", "constant")
+#: Aerodynamic model names a ball preset may give: the keys of the model registry.
+AERO_CHOICES = tuple(AERO_MODELS)
 
 _TOSS = {
     "contact_m": Key("vector", -15.0, 15.0),

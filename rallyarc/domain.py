@@ -6,6 +6,7 @@ user units (km/h, rpm, degrees) to SI once, and returns a small frozen object th
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field, replace
 
@@ -125,13 +126,24 @@ class Conditions:
             wind=self.air.wind,
         )
 
+    #: The reference ball's drop-test restitution (the surface presets' restitution was
+    #: measured with it); the preset's value unless given.
+    reference_restitution: float | None = None
+    #: The surface as this ball meets it (derived once, see :meth:`surface_for_ball`).
+    ball_surface: Surface = field(init=False, repr=False, compare=False)
+
+    def __post_init__(self):
+        if self.reference_restitution is None:
+            object.__setattr__(self, "reference_restitution", reference_ball().restitution)
+        scale = self.ball.restitution / self.reference_restitution
+        surface = replace(self.surface, restitution=min(1.0, self.surface.restitution * scale))
+        object.__setattr__(self, "ball_surface", surface)
+
     def surface_for_ball(self):
         """The surface as this ball meets it: the surface's restitution (measured with the
         reference ball) scaled by the ratio of the ball's drop-test restitution to the
         reference ball's."""
-        reference = load_ball(REFERENCE_BALL).restitution
-        scale = self.ball.restitution / reference
-        return replace(self.surface, restitution=min(1.0, self.surface.restitution * scale))
+        return self.ball_surface
 
 
 @dataclass(frozen=True)
@@ -149,6 +161,13 @@ class Scenario:
     source: str = ""
     where: str = ""
     meta: dict = field(default_factory=dict)
+
+
+@functools.cache
+def reference_ball():
+    """The reference ball of the surface presets (:data:`REFERENCE_BALL`), loaded once: a
+    packaged preset, so it cannot change while the program runs."""
+    return load_ball(REFERENCE_BALL)
 
 
 def load_ball(name):
@@ -366,3 +385,33 @@ def drop_test_rebound(ball, restitution=None, air_density_kgm3=1.204):
         atol=1e-10,
     )
     return up.events["apex"].position[:, 2] - ball.radius
+
+
+@dataclass(frozen=True)
+class Machine:
+    """A ball machine's limits, SI: speeds [m/s], spin [rad/s], angles [rad], height [m]."""
+
+    name: str
+    speed_min: float
+    speed_max: float
+    spin_max: float
+    elevation_min: float
+    elevation_max: float
+    azimuth_max: float
+    release_height: float
+    source: str = ""
+
+
+def load_machine(name):
+    d = config.load("machines", name)
+    return Machine(
+        str(name),
+        d["speed_min_kmh"] * KMH,
+        d["speed_max_kmh"] * KMH,
+        d["spin_max_rpm"] * RPM,
+        math.radians(d["elevation_min_deg"]),
+        math.radians(d["elevation_max_deg"]),
+        math.radians(d["azimuth_max_deg"]),
+        d["release_height_m"],
+        d["source"],
+    )

@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from rallyarc.shot import stages
+import rallyarc.shot.stages as stages
 from rallyarc.shot.metrics import METRICS
 from rallyarc.shot.result import Phase, ShotResult
 from rallyarc.shot.state import BallState, Swing, serve_states

@@ -1,0 +1,167 @@
+"""Aiming a stroke: the free swing parameters (face tilt or head speed, and swing direction)
+that put the ball on a target, optionally with a net clearance or a height at the receiver."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from rallyarc.aim.solver import (
+    HEIGHT_TOL_M,
+    LAND_TOL_M,
+    AimResult,
+    finite,
+    height_value,
+    solve,
+)
+from rallyarc.shot import BallState, Swing, serve_states, simulate
+
+_SWING_BOUNDS = {
+    "face_tilt": (math.radians(-40.0), math.radians(50.0), math.radians(1.0)),
+    "swing_direction": (math.radians(-45.0), math.radians(45.0), math.radians(1.0)),
+    "head_speed": (3.0, 60.0, 1.0),
+    "swing_path": (math.radians(-50.0), math.radians(70.0), math.radians(1.0)),
+}
+STYLES = {"tilt": ("face_tilt", "swing_direction"), "speed": ("head_speed", "swing_direction")}
+
+
+def aim_stroke(
+    incoming,
+    stroke,
+    conditions,
+    target_x,
+    target_y,
+    free="tilt",
+    clearance=None,
+    receiver_height=None,
+    which=None,
+):
+    """Solve a stroke's free swing parameters so that the ball lands on target.
+
+    Parameters
+    ----------
+    incoming : BallState
+        The ball at contact, one or N (a serve uses its toss when ``None``).
+    stroke : rallyarc.domain.Stroke, or a sequence of them
+        The stroke style (one for every target, or one per target, or K styles chosen per
+        target by ``which``); its other swing values are kept. Targets of different styles
+        solve together in one batch.
+    target_x, target_y : float or array (N,)
+        Landing targets [m], court frame (the hitter at the near end).
+    free : {"tilt", "speed"}
+        Solve face tilt and swing direction, or head speed and swing direction. The face
+        azimuth turns with the swing direction (the stroke's offset between them is kept).
+    clearance, receiver_height : float or array (N,), optional
+        Also meet a net clearance [m] or a ball height at the receiver's plane [m]; the third
+        free parameter is then head speed (style "tilt") or face tilt (style "speed").
+    which : int array (N,), optional
+        For a sequence of K strokes: the index of each target's stroke.
+
+    Returns
+    -------
+    AimResult
+    """
+    if free not in STYLES:
+        raise ValueError(f"free must be one of {', '.join(STYLES)}")
+    if clearance is not None and receiver_height is not None:
+        raise ValueError("give a net clearance or a receiver height, not both")
+    tx, ty = np.broadcast_arrays(
+        np.atleast_1d(np.asarray(target_x, float)), np.atleast_1d(np.asarray(target_y, float))
+    )
+    names = list(STYLES[free])
+    extra = clearance if clearance is not None else receiver_height
+    extra_key = "net_clearance_m" if clearance is not None else "receiver_height_m"
+    if extra is not None:
+        names.append("head_speed" if free == "tilt" else "face_tilt")
+        extra = np.broadcast_to(np.asarray(extra, float), tx.shape)
+    n = tx.size
+    state, base, serve = _batch(incoming, stroke, which, n)
+    offset = base.face_azimuth - base.swing_direction
+    lo = np.array([_SWING_BOUNDS[k][0] for k in names])
+    hi = np.array([_SWING_BOUNDS[k][1] for k in names])
+    scale = np.array([_SWING_BOUNDS[k][2] for k in names])
+
+    def swings(p, idx):
+        reps = p.shape[0] // len(idx)
+        fields = {f: np.tile(getattr(base, f)[idx], reps) for f in Swing.FIELDS}
+        for j, name in enumerate(names):
+            fields[name] = p[:, j]
+        fields["face_azimuth"] = fields["swing_direction"] + np.tile(offset[idx], reps)
+        return Swing(**fields)
+
+    def run(p, idx, record=False):
+        reps = p.shape[0] // len(idx)
+        st = BallState(
+            *(np.tile(a[idx], (reps, 1)) for a in (state.position, state.velocity, state.spin))
+        )
+        return simulate(
+            st, swings(p, idx), conditions, serve=np.tile(serve[idx], reps), record=record
+        )
+
+    def evaluate(p, idx):
+        reps = p.shape[0] // len(idx)
+        m = run(p, idx).metrics
+        out = [
+            (finite(m["flight_ground_x_m"], -30.0) - np.tile(tx[idx], reps)) / LAND_TOL_M,
+            (finite(m["flight_ground_y_m"], 0.0) - np.tile(ty[idx], reps)) / LAND_TOL_M,
+        ]
+        if extra is not None:
+            out.append((height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M)
+        return np.stack(out, axis=1)
+
+    p0 = np.stack([getattr(base, k) for k in names], axis=1).astype(float)
+    x0, y0 = state.position[:, 0], state.position[:, 1]
+    p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
+    p0 = np.clip(p0, lo, hi)
+    p, ok, iters = solve(evaluate, p0, lo, hi, scale)
+    result = run(p, np.arange(n), record=True)
+    ok = ok & ~np.isin(result.metrics["outcome"], ("net", "miss"))
+    reason = _reasons(
+        result.metrics, ok, tx, p, lo, hi, names, extra_key if extra is not None else None, extra
+    )
+    settings = {name: p[:, j] for j, name in enumerate(names)}
+    return AimResult(settings, ok, reason, result, tx, ty, iters)
+
+
+def _batch(incoming, stroke, which, n):
+    """The N targets' balls at contact, base swings and serve flags, from one stroke, one per
+    target, or K strokes chosen per target by ``which``."""
+    several = isinstance(stroke, list | tuple)
+    styles = list(stroke) if several else [stroke]
+    if which is None:
+        if several and len(styles) != n:
+            raise ValueError(f"give one stroke or one per target ({n}), not {len(styles)}")
+        which = np.arange(n) if several else np.zeros(n, int)
+    which = np.broadcast_to(np.asarray(which, int), (n,))
+    if incoming is None:
+        toss = serve_states(styles)
+        incoming = BallState(toss.position[which], toss.velocity[which], toss.spin[which])
+    state = BallState.of(incoming.position, incoming.velocity, incoming.spin, n)
+    per_style = Swing.from_strokes(styles)
+    base = Swing(**{f: getattr(per_style, f)[which] for f in Swing.FIELDS})
+    serve = np.array([s.kind == "serve" for s in styles])[which]
+    return state, base, serve
+
+
+def _reasons(m, ok, tx, p, lo, hi, names, extra_key, extra):
+    reason = np.full(ok.shape, "", dtype=object)
+    at_bound = np.any((p <= lo + 1e-9) | (p >= hi - 1e-9), axis=1)
+    for i in np.flatnonzero(~ok):
+        land = m["land_x_m"][i]
+        if m["outcome"][i] == "net":
+            why = "net: within the style's range every nearby swing puts the ball into the net"
+        elif np.isfinite(land) and land > tx[i] + LAND_TOL_M:
+            why = "too long: the style cannot bring the ball down short enough"
+        elif extra_key is not None and m["impact_spin_limit_reached"][i]:
+            why = (
+                "friction-only spin limit: the strings already grip the ball, so no swing of "
+                "this style gives the spin the height target needs"
+            )
+        elif at_bound[i]:
+            bounded = [names[j] for j in np.flatnonzero((p[i] <= lo + 1e-9) | (p[i] >= hi - 1e-9))]
+            why = "outside the style's range of " + ", ".join(bounded)
+        else:
+            why = "no swing of this style found that meets every target"
+        reason[i] = why
+    return reason.astype(str)
