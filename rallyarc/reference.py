@@ -86,30 +86,11 @@ def play_shot(position, velocity, spin, swing, conditions, serve=False, **solver
         (NaN where the shot has none).
     """
     opts = {**BASELINE, **solver}
-    ball, racket = conditions.ball, conditions.racket
+    ball = conditions.ball
     r = ball.radius
     params = conditions.flight_params()
-    sw = {k: np.atleast_1d(float(v)) for k, v in swing.items()}
-    normal, axis = face_orientation(sw["face_tilt"], sw["face_azimuth"], sw["racket_roll"])
-    face_v = swing_velocity(sw["head_speed"], sw["swing_path"], sw["swing_direction"])
-    contact = hit(
-        np.asarray(velocity, float)[None],
-        np.asarray(spin, float)[None],
-        face_v,
-        normal,
-        axis,
-        racket.racket,
-        sw["impact_from_butt"],
-        sw["impact_offaxis"],
-        ball.mass,
-        r,
-        ball.alpha,
-        racket.string_restitution,
-        racket.string_friction,
-    )
+    v0, w0, approaching = _impact_one(velocity, spin, swing, conditions)
     x0 = np.asarray(position, float)
-    v0, w0 = contact.velocity[0], contact.spin[0]
-    approaching = bool(contact.approaching[0])
     far_plane = court.HALF_LENGTH + conditions.receiver_plane_m
     nan = float("nan")
     out = dict.fromkeys(
@@ -163,24 +144,50 @@ def play_shot(position, velocity, spin, swing, conditions, serve=False, **solver
     # the bounce and the free flight to the second bounce
     w_land = w0 * np.exp(-params.spin_decay_rate * t_land)
     res = bounce(y_land[3:][None], w_land[None], r, ball.alpha, conditions.surface_for_ball())
+    events = [receiver, top, ground]
     second = _fly_one(
-        y_land[:3],
-        res.velocity[0],
-        res.spin[0],
-        t_land,
-        params,
-        [receiver, top, ground],
-        **_solver(opts),
+        y_land[:3], res.velocity[0], res.spin[0], t_land, params, events, **_solver(opts)
     )
+    _after_bounce(second, rec is None, r, out)
+    return out
+
+
+def _impact_one(velocity, spin, swing, conditions):
+    """One racket-ball contact: outgoing velocity [m/s], spin [rad/s] and whether the racket
+    met the ball."""
+    ball, racket = conditions.ball, conditions.racket
+    sw = {k: np.atleast_1d(float(v)) for k, v in swing.items()}
+    normal, axis = face_orientation(sw["face_tilt"], sw["face_azimuth"], sw["racket_roll"])
+    face_v = swing_velocity(sw["head_speed"], sw["swing_path"], sw["swing_direction"])
+    contact = hit(
+        np.asarray(velocity, float)[None],
+        np.asarray(spin, float)[None],
+        face_v,
+        normal,
+        axis,
+        racket.racket,
+        sw["impact_from_butt"],
+        sw["impact_offaxis"],
+        ball.mass,
+        ball.radius,
+        ball.alpha,
+        racket.string_restitution,
+        racket.string_friction,
+    )
+    return contact.velocity[0], contact.spin[0], bool(contact.approaching[0])
+
+
+def _after_bounce(second, receiver_open, radius, out):
+    """Apex, receiver's plane (if the first flight did not reach it) and second bounce from
+    the reference flight after the bounce."""
     apex = _first(second, 1)
-    out["bounce_apex_m"] = apex[1][2] if apex is not None else r
+    out["bounce_apex_m"] = apex[1][2] if apex is not None else radius
     rec2 = _first(second, 0)
-    if rec is None and rec2 is not None:
+    if receiver_open and rec2 is not None:
         out["receiver_t_s"], out["receiver_height_m"] = rec2[0], rec2[1][2]
     twice = _first(second, 2)
     if twice is not None:
         out["bounce_second_x_m"] = twice[1][0]
-    return out
 
 
 def _solver(opts):
