@@ -39,6 +39,13 @@ class Metric:
     field: str
     label: str
     meaning: str
+    #: The row name in a table whose section already says the stage ("speed in" under
+    #: BOUNCE); the label when not given.
+    short: str = ""
+
+    @property
+    def row(self):
+        return self.short or self.label
 
     @property
     def numeric(self):
@@ -46,7 +53,42 @@ class Metric:
 
 
 def _m(block, field, unit, label, meaning):
-    return Metric(BLOCKS[block] + field, unit, block, field, label, meaning)
+    return Metric(
+        BLOCKS[block] + field,
+        unit,
+        block,
+        field,
+        label,
+        meaning,
+        _SHORT.get(field_key(block, field), ""),
+    )
+
+
+def field_key(block, field):
+    return BLOCKS[block] + field
+
+
+#: Table row names (see :attr:`Metric.short`).
+_SHORT = {
+    "impact_speed_mps": "ball speed",
+    "impact_topspin_rpm": "topspin",
+    "impact_sidespin_rpm": "sidespin",
+    "net_height_m": "height at net",
+    "land_x_m": "x",
+    "land_y_m": "y",
+    "land_depth_m": "inside baseline",
+    "land_side_margin_m": "inside sideline",
+    "land_box_depth_m": "inside service line",
+    "land_box_side_margin_m": "inside box sides",
+    "bounce_speed_in_mps": "speed in",
+    "bounce_speed_out_mps": "speed out",
+    "bounce_angle_in_deg": "angle in",
+    "bounce_angle_out_deg": "angle out",
+    "bounce_spin_in_rpm": "topspin in",
+    "bounce_spin_out_rpm": "topspin out",
+    "bounce_apex_m": "apex after bounce",
+    "receiver_height_m": "at receiver plane",
+}
 
 
 _ALL = (
