@@ -1,0 +1,195 @@
+"""Where the receiver meets the ball.
+
+On the ball's path after its bounce and before a second bounce, a point is within reach when
+its height lies between the player's lowest and highest contact, it is no deeper than the
+player's deepest position behind the baseline, and its horizontal distance from the player's
+home position is at most ``reach_m`` plus the run ``run_speed_mps * (t - reaction_s)`` from the
+opponent's contact. The player aims to meet the ball at the point their timing names: on the
+rise or on the drop where the ball passes the middle of their preferred contact-height range
+(at the apex when the bounce does not rise that high), or at the apex. When that point is out of
+reach, they meet the ball at the point within reach nearest to it in time (a heavy high ball
+the player cannot back away from is met above the preferred range). No point within reach ends
+the rally: a winner (an ace for a serve). The player is back at home for every shot (no
+recovery model).
+
+Everything here is in the hitter's chain frame, where the receiver stands at the far end.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from rallyarc import court
+
+#: A contact this close in time to the bounce's apex is "at the apex" [s].
+APEX_WINDOW_S = 0.02
+#: Samples of each ball's path after its bounce when looking for the contact point.
+PATH_SAMPLES = 160
+
+
+@dataclass
+class Contact:
+    """Where receivers meet N balls that landed in, in the hitter's chain frame: ``found``
+    (N,) bool, ``t`` [s] after the hitter's contact, the ball's position [m], velocity [m/s]
+    and spin [rad/s] there ``(N, 3)``, the timing's target time ``target_t`` [s], ``reason``
+    (why no point was within reach) and ``phase`` (rise, apex or drop)."""
+
+    found: np.ndarray
+    t: np.ndarray
+    position: np.ndarray
+    velocity: np.ndarray
+    spin: np.ndarray
+    target_t: np.ndarray
+    reason: np.ndarray
+    phase: np.ndarray
+
+
+def _bisect(f, a, b, iterations=30):
+    """Vectorized bisection for a sign change of ``f`` between times ``a`` and ``b``
+    (``f(a)`` false, ``f(b)`` true, or the reverse); returns the time next to the true side."""
+    fa = f(a)
+    for _ in range(iterations):
+        mid = 0.5 * (a + b)
+        fm = f(mid)
+        same = fm == fa
+        a = np.where(same, mid, a)
+        b = np.where(same, b, mid)
+    return np.where(fa, a, b)
+
+
+class _Path:
+    """The n balls' paths from their bounce (``t_b`` [s]) to a second bounce (``t_e``), columns
+    ``col`` of the flight after the bounce, and the receiver's reach along them."""
+
+    def __init__(self, flight, col, t_b, receiver):
+        self.trajectory = flight.trajectory
+        self.col = col
+        self.t_b = t_b
+        self.t_e = flight.t[col]
+        self.n = col.size
+        self.receiver = receiver
+        # the receiver in the hitter's frame: home at (L/2 + behind, -y) (180 degree rotation)
+        self.home = np.array([court.HALF_LENGTH + receiver.home_behind, -receiver.home_y])
+        self.deepest = court.HALF_LENGTH + receiver.deepest_behind
+
+    def sample(self, times):
+        """Positions, velocities and spins of the n balls at times (M, n)."""
+        full = np.zeros((times.shape[0], self.trajectory.t.shape[1]))
+        full[:, self.col] = times
+        pos, vel, spin = self.trajectory.sample(full)
+        return pos[:, self.col], vel[:, self.col], spin[:, self.col]
+
+    def feasible_parts(self, times, pos):
+        """Within the height range after the bounce, not too deep, and within the run."""
+        r, t_b, home = self.receiver, self.t_b, self.home
+        z = pos[..., 2]
+        height = (z >= r.lowest) & (z <= r.highest)
+        depth = pos[..., 0] <= self.deepest
+        dist = np.hypot(pos[..., 0] - home[0], pos[..., 1] - home[1])
+        move = dist <= r.reach + r.run_speed * np.maximum(0.0, times - r.reaction)
+        after_bounce = times > t_b[None, :] if times.ndim == 2 else times > t_b
+        return height & after_bounce, depth, move
+
+    def feasible(self, times, pos):
+        h, d, mv = self.feasible_parts(times, pos)
+        return h & d & mv
+
+
+def _target_time(path, apex_ev, radius):
+    """The time the receiver's timing names [s] and the time of the bounce's apex [s]."""
+    col, t_b = path.col, path.t_b
+    t_apex = np.where(apex_ev.occurred[col], apex_ev.t[col], t_b)
+    z_apex = np.where(apex_ev.occurred[col], apex_ev.position[col, 2], radius)
+    receiver = path.receiver
+    if receiver.timing == "apex":
+        return t_apex, t_apex
+    mid = 0.5 * (receiver.contact_band[0] + receiver.contact_band[1])
+    high = z_apex > mid
+
+    def above(t):
+        return path.sample(t[None, :])[0][0, :, 2] >= mid
+
+    if receiver.timing == "rise":
+        cross = _bisect(above, t_b.copy(), t_apex.copy())
+    else:
+        cross = _bisect(above, path.t_e.copy(), t_apex.copy())
+    return np.where(high, cross, t_apex), t_apex
+
+
+def _nearest_within_reach(path, target):
+    """The contact time [s] within reach nearest to ``target``, whether there is one, and the
+    sampled path ``(grid, grid_pos)`` it was searched on."""
+    n, t_b, cols = path.n, path.t_b, np.arange(path.n)
+    frac = np.linspace(0.0, 1.0, PATH_SAMPLES)[:, None]
+    grid = t_b[None, :] + frac * (path.t_e - t_b)[None, :]
+    times = np.concatenate([grid, target[None, :]])
+    pos, _, _ = path.sample(times)
+    grid_pos = pos[:-1]
+    ok = path.feasible(times, pos)
+    at_target = ok[-1]
+    gap = np.where(ok[:-1], np.abs(grid - target[None, :]), np.inf)
+    j = np.argmin(gap, axis=0)
+    found = at_target | np.isfinite(gap[j, cols])
+    t_c = np.where(at_target, target, grid[j, cols])
+
+    # refine toward the target: bisect between the feasible sample and its neighbour
+    step = np.where(grid[j, cols] < target, 1, -1)
+    nb = np.clip(j + step, 0, PATH_SAMPLES - 1)
+    t_nb = grid[nb, cols]
+    refine = found & ~at_target & ~ok[nb, np.arange(n)] & (nb != j)
+    if refine.any():
+        r = np.flatnonzero(refine)
+
+        def ok_at(t):
+            full = t_c.copy()
+            full[r] = t
+            p, _, _ = path.sample(full[None, :])
+            return path.feasible(full[None, :], p)[0, r]
+
+        t_c[r] = _bisect(ok_at, t_c[r].copy(), t_nb[r].copy(), iterations=20)
+    return t_c, found, grid, grid_pos
+
+
+def _unreached_reason(path, grid, grid_pos, found):
+    """Why no point of a ball's path was within reach (``""`` where one was)."""
+    h, d, mv = path.feasible_parts(grid, grid_pos)
+    reason = np.full(path.n, "", dtype=object)
+    none = ~found
+    reason[none & (d & mv).any(axis=0)] = "out of height range"
+    reason[none & (reason == "") & (h & d).any(axis=0)] = "too far to run"
+    reason[none & (reason == "")] = "past the deepest position"
+    return reason.astype(str)
+
+
+def meet(result, balls, receiver):
+    """Find where ``receiver`` meets the balls ``balls`` (indices of shots that landed in) of
+    one chain result ``result`` (recorded), all in the hitter's chain frame.
+
+    Returns a :class:`Contact` for those balls.
+    """
+    balls = np.asarray(balls, int)
+    if balls.size == 0:
+        return Contact(
+            np.zeros(0, bool),
+            *(np.zeros((0,) + s) for s in ((), (3,), (3,), (3,), ())),
+            np.array([], str),
+            np.array([], str),
+        )
+    if result.after_bounce is None:
+        raise ValueError("every ball must have bounced")
+    after = result.after_bounce.flight
+    try:
+        col = result.after_bounce.columns(balls)
+    except ValueError:
+        raise ValueError("every ball must have bounced") from None
+    path = _Path(after, col, result.metrics["bounce_t_s"][balls], receiver)
+    target, t_apex = _target_time(path, after.events["apex"], result.conditions.ball.radius)
+    t_c, found, grid, grid_pos = _nearest_within_reach(path, target)
+    pos, vel, spin = (a[0] for a in path.sample(t_c[None, :]))
+    reason = _unreached_reason(path, grid, grid_pos, found)
+    phase = np.where(
+        np.abs(t_c - t_apex) <= APEX_WINDOW_S, "apex", np.where(t_c < t_apex, "rise", "drop")
+    )
+    return Contact(found, t_c, pos, vel, spin, target, reason, phase)

@@ -1,0 +1,326 @@
+"""The round loop: every live rally of a block plays one shot per round, all in one batch.
+
+One round, in named steps (each over every live rally at once, per hitter):
+
+1. Draw this round's random numbers for the live rallies, in order (:class:`Draws`).
+2. Choose each hitter's shot (:func:`rallyarc.rally.choice.choose_shots`); a serve starts from
+   its toss, mirrored across the centre mark on the ad side (:func:`_toss`).
+3. Aim: the intended point in the shot's target zone, displaced by the aim scatter
+   (:mod:`rallyarc.rally.choice`).
+4. Solve the swings: :func:`rallyarc.aim.aim_stroke` for every live rally at once, one call per
+   aim style, clearance and racket over both hitters and every stroke style
+   (:func:`_solve_swings`).
+5. Swing with scatter: the solved swing perturbed by the head-speed, face-tilt and swing-path
+   scatter (normal), and played through the chain with :func:`rallyarc.shot.simulate`.
+6. Meet: where the receiver meets each ball that landed in (:func:`rallyarc.rally.meet.meet`).
+7. Judge the result (:func:`rallyarc.rally.endings.judge`), record the rows
+   (:func:`rallyarc.rally.table.shot_rows`) and advance every rally: the ball where the receiver
+   met it, turned to the receiver's frame, or a second serve, or the end of the rally.
+
+The random numbers of a round are drawn for all live rallies before any shot is played, in
+the same order every round, so a block's tables depend only on its seed.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from rallyarc.aim import aim_stroke
+from rallyarc.rally.choice import choose_shots, draw_targets, scatter_aim
+from rallyarc.rally.endings import ONGOING, judge, point_winner
+from rallyarc.rally.frames import ENDS, to_other_end
+from rallyarc.rally.meet import Contact, meet
+from rallyarc.rally.table import rally_table, shot_rows, shot_table
+from rallyarc.shot import BallState, ShotResult, Swing, simulate
+from rallyarc.units import RPM
+
+
+@dataclass
+class RallyState:
+    """Every rally of a block between two rounds, arrays over the block's rallies: the next
+    hitter's end index, the point's server and side, the serve to play (``"first"``,
+    ``"second"``, or ``""`` for a ball in play), the shot count, the ball where the next hitter
+    meets it (in that hitter's frame) and how it was met, and the end of each rally."""
+
+    rally: np.ndarray
+    hitter: np.ndarray
+    server: np.ndarray
+    side: np.ndarray
+    kind: np.ndarray
+    shot_no: np.ndarray
+    position: np.ndarray
+    velocity: np.ndarray
+    spin: np.ndarray
+    phase: np.ndarray
+    live: np.ndarray
+    ending: np.ndarray
+    winner: np.ndarray
+
+    @classmethod
+    def start(cls, patterns, start, n):
+        """Rallies ``start`` to ``start + n - 1`` before their first serve."""
+        rally = start + np.arange(n)
+        if patterns.server == "alternate":
+            hitter = rally % 2
+        else:
+            hitter = np.full(n, ENDS.index(patterns.server))
+        return cls(
+            rally=rally,
+            hitter=hitter,
+            server=hitter.copy(),
+            side=np.where((rally // 2) % 2 == 0, "deuce", "ad"),
+            kind=np.full(n, "first", dtype=object),
+            shot_no=np.zeros(n, int),
+            position=np.zeros((n, 3)),
+            velocity=np.zeros((n, 3)),
+            spin=np.zeros((n, 3)),
+            phase=np.full(n, "toss", dtype=object),
+            live=np.ones(n, bool),
+            ending=np.full(n, "", dtype=object),
+            winner=np.full(n, -1),
+        )
+
+
+@dataclass(frozen=True)
+class Draws:
+    """One round's random numbers for the m live rallies: shot choice (m,), target in the zone
+    (m, 2) (uniform), aim scatter (m, 2) and swing scatter (m, 3) (standard normal)."""
+
+    choice: np.ndarray
+    target: np.ndarray
+    aim: np.ndarray
+    swing: np.ndarray
+
+    @classmethod
+    def of(cls, rng, m):
+        # the order of these draws fixes the tables for a seed: keep it
+        choice = rng.random(m)
+        target = rng.random((m, 2))
+        aim = rng.standard_normal((m, 2))
+        swing = rng.standard_normal((m, 3))
+        return cls(choice, target, aim, swing)
+
+
+@dataclass
+class Turn:
+    """One hitter's shots of a round: ``end`` (0 near, 1 far), the players, ``live`` (their
+    places among the round's live rallies, for the draws), ``rallies`` (indices in the block),
+    the rallies' serve kind, side, shot number and how the ball was met, the incoming ball in
+    the hitter's frame, the chosen entries, the intended and scattered aim points [m], the
+    scatter factor, and the solved swing with whether its target was reachable."""
+
+    end: int
+    player: object
+    receiver: object
+    live: np.ndarray
+    rallies: np.ndarray
+    kind: np.ndarray
+    side: np.ndarray
+    shot: np.ndarray
+    phase: np.ndarray
+    ball: BallState
+    entries: list
+    entry_of: np.ndarray
+    intended: np.ndarray
+    aimed: np.ndarray
+    grow: np.ndarray
+    solved: Swing
+    reachable: np.ndarray
+
+    @property
+    def serve(self):
+        return self.kind != ""
+
+
+@dataclass(frozen=True)
+class Played:
+    """A turn's shots as played: the swing after scatter, the chain result, which balls landed
+    in, where the receiver meets them, each shot's result and why a ball was not reached."""
+
+    swing: Swing
+    result: ShotResult
+    landed_in: np.ndarray
+    contact: Contact
+    outcome: np.ndarray
+    unreached_reason: np.ndarray
+
+
+def _toss(state, a, entries, entry_of):
+    """Each serve's ball at contact: its toss, mirrored across the centre mark on the ad side."""
+    for j in np.flatnonzero(state.kind[a] != ""):
+        toss = entries[entry_of[j]].stroke.toss
+        c = np.array(toss.contact, float)
+        c[1] = abs(c[1]) if state.side[a[j]] == "ad" else -abs(c[1])
+        state.position[a[j]] = c
+        state.velocity[a[j]] = toss.velocity()
+        state.spin[a[j]] = [0.0, toss.spin_rpm * RPM, 0.0]
+
+
+def _ball(state, a):
+    return BallState(state.position[a].copy(), state.velocity[a].copy(), state.spin[a].copy())
+
+
+def _plan_turn(state, players, e, act, hitters, draws):
+    """Steps 2 and 3 for the live rallies that end ``e`` hits this round; None if there are none."""
+    pl, opp = players[e], players[1 - e]
+    mine = np.flatnonzero(hitters == e)
+    if mine.size == 0:
+        return None
+    a = act[mine]
+    kind = state.kind[a]
+    entries, entry_of = choose_shots(pl, kind, draws.choice[mine], _ball(state, a))
+    _toss(state, a, entries, entry_of)
+    ball = _ball(state, a)
+    intended = draw_targets(
+        entries, entry_of, draws.target[mine], state.side[a], ball.position[:, 1], opp
+    )
+    aimed, grow = scatter_aim(pl, intended, ball.position[:, 2], kind != "", draws.aim[mine])
+    return Turn(
+        end=e,
+        player=pl,
+        receiver=opp,
+        live=mine,
+        rallies=a,
+        kind=kind,
+        side=state.side[a],
+        shot=state.shot_no[a],
+        phase=state.phase[a],
+        ball=ball,
+        entries=entries,
+        entry_of=entry_of,
+        intended=intended,
+        aimed=aimed,
+        grow=grow,
+        solved=Swing(**{f: np.zeros(a.size) for f in Swing.FIELDS}),
+        reachable=np.zeros(a.size, bool),
+    )
+
+
+def _stacked_balls(members):
+    """The incoming balls of a solve group's members ``(turn, k, entry)``, in order."""
+    return BallState(
+        *(
+            np.concatenate([getattr(t.ball, f)[k] for t, k, _ in members])
+            for f in ("position", "velocity", "spin")
+        )
+    )
+
+
+def _solve_swings(turns):
+    """Step 4: one batched solve per aim style, clearance and racket, over both hitters (when
+    they play with the same racket), every stroke style and every live rally; fills each
+    turn's ``solved`` swing and ``reachable``."""
+    groups = {}
+    for t in turns:
+        for j, s in enumerate(t.entries):
+            k = np.flatnonzero(t.entry_of == j)
+            if k.size:
+                groups.setdefault((s.aim, s.clearance, t.player.racket_name), []).append((t, k, s))
+    for members in groups.values():
+        t0, _, s0 = members[0]
+        res = aim_stroke(
+            _stacked_balls(members),
+            [s.stroke for _, _, s in members],
+            t0.player.conditions,
+            np.concatenate([t.aimed[k, 0] for t, k, _ in members]),
+            np.concatenate([t.aimed[k, 1] for t, k, _ in members]),
+            free=s0.aim,
+            clearance=s0.clearance,
+            which=np.repeat(np.arange(len(members)), [k.size for _, k, _ in members]),
+        )
+        at = 0
+        for t, k, _ in members:
+            part = slice(at, at + k.size)
+            at += k.size
+            for f in Swing.FIELDS:
+                getattr(t.solved, f)[k] = getattr(res.result.swing, f)[part]
+            t.reachable[k] = res.reachable[part]
+
+
+def _scattered_swing(turn, z):
+    """Step 5: the solved swing with the execution scatter, normal numbers ``z`` (n, 3)."""
+    zs = z * turn.grow[:, None]
+    sd, s = turn.player.scatter, turn.solved
+    return replace(
+        s,
+        head_speed=np.maximum(s.head_speed + sd["head_speed"] * zs[:, 0], 1.0),
+        face_tilt=s.face_tilt + sd["face_tilt"] * zs[:, 1],
+        swing_path=s.swing_path + sd["swing_path"] * zs[:, 2],
+    )
+
+
+def _play_turn(turn, draws, limit):
+    """Steps 5 to 7: swing, play the chain, meet the balls that landed in, judge the results."""
+    swing = _scattered_swing(turn, draws.swing[turn.live])
+    labels = np.array([s.label for s in turn.entries])[turn.entry_of]
+    result = simulate(turn.ball, swing, turn.player.conditions, labels=labels, serve=turn.serve)
+    landed_in = result.metrics["outcome"] == "in"
+    li = np.flatnonzero(landed_in)
+    contact = meet(result, li, turn.receiver)
+    reached = np.zeros(turn.rallies.size, bool)
+    reached[li] = contact.found
+    reason = np.full(turn.rallies.size, "", dtype=object)
+    reason[li] = contact.reason
+    outcome = judge(turn.kind, landed_in, reached, turn.shot, limit)
+    return Played(swing, result, landed_in, contact, outcome, reason)
+
+
+def _advance(state, turn, played, report):
+    """Step 7: the next state of every rally of this hitter."""
+    e, a, res_kind, contact = turn.end, turn.rallies, played.outcome, played.contact
+    li = np.flatnonzero(played.landed_in)
+    cont = np.zeros(a.size, bool)
+    cont[li] = contact.found
+    cont &= res_kind == "continues"
+    nxt = a[li[contact.found]]
+    state.position[nxt] = to_other_end(contact.position[contact.found])
+    state.velocity[nxt] = to_other_end(contact.velocity[contact.found])
+    state.spin[nxt] = to_other_end(contact.spin[contact.found])
+    state.phase[nxt] = contact.phase[contact.found]
+    goes_on = a[cont]
+    state.hitter[goes_on] = 1 - e
+    state.kind[goes_on] = ""
+    faulted = a[res_kind == "fault"]
+    state.kind[faulted] = "second"
+    state.phase[faulted] = "toss"
+    done = ~np.isin(res_kind, ONGOING)
+    ends = a[done]
+    state.ending[ends] = res_kind[done]
+    state.winner[ends] = point_winner(res_kind[done], e)
+    state.live[ends] = False
+    if done.any():
+        report(int(done.sum()))
+
+
+def play_round(state, players, rng, limit, report):
+    """One shot of every live rally; advances ``state`` and returns this round's rows."""
+    act = np.flatnonzero(state.live)
+    state.shot_no[act] += 1
+    draws = Draws.of(rng, act.size)
+    hitters = state.hitter[act].copy()  # each live rally plays one shot per round
+    turns = [_plan_turn(state, players, e, act, hitters, draws) for e in (0, 1)]
+    turns = [t for t in turns if t is not None]
+    _solve_swings(turns)
+    rows = []
+    for turn in turns:
+        played = _play_turn(turn, draws, limit)
+        rows.append(shot_rows(turn, played))
+        _advance(state, turn, played, report)
+    return rows
+
+
+def play_block(patterns, start, n, stream, limit, report):
+    """Rallies ``start`` to ``start + n - 1``, one batch; returns (shots, rallies) frames.
+
+    ``stream`` seeds the block's random numbers; ``report(k)`` is called with the number of
+    rallies finished in each step.
+    """
+    rng = np.random.default_rng(stream)
+    state = RallyState.start(patterns, start, n)
+    rows = []
+    while state.live.any():
+        rows.extend(play_round(state, patterns.players, rng, limit, report))
+    shots = shot_table(rows, start)
+    return shots, rally_table(state, patterns.players, shots)
