@@ -2,20 +2,30 @@
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 
-from rallyarc import config, kinematics
+from rallyarc import domain, kinematics
 from rallyarc.court import net_height
-from rallyarc.flight.aero import get_aero_model
 from rallyarc.flight.forces import FlightParams
 from rallyarc.flight.integrate import PlaneEvent, fly, ground_contact
 
 
-def ball_params(ball_name="itf_type2"):
-    """The ball preset as a dict with SI values and its radius."""
-    ball = config.load("balls", ball_name)
-    ball["radius_m"] = ball["diameter_m"] / 2.0
-    return ball
+def flight_params(ball, air_density, aero=None, spin_decay_rate=0.0, wind=(0.0, 0.0, 0.0)):
+    """Flight parameters of a ball (a :class:`rallyarc.domain.Ball`) in air of ``air_density``
+    [kg/m^3], with its own aerodynamic model or the model named ``aero``; as
+    :meth:`rallyarc.domain.Conditions.flight_params` builds them for the chain."""
+    if aero:
+        ball = replace(ball, aero_model=aero)
+    return FlightParams(
+        mass=ball.mass,
+        radius=ball.radius,
+        air_density=air_density,
+        aero=ball.aero,
+        spin_decay_rate=spin_decay_rate,
+        wind=wind,
+    )
 
 
 def launch_velocity(speed, elevation, azimuth):
@@ -44,22 +54,15 @@ def simulate_feed(
     origin : (3,) release point of the ball centre [m].
     speed : launch speed [m/s]; elevation, azimuth : [rad]; spin : [rad/s] about ``spin_axis``
         (court frame, normalised here; the default +y is topspin for a ball toward +x).
+    ball : ball preset or TOML file (read by :func:`rallyarc.domain.load_ball`).
+    aero : name of an aerodynamic model instead of the ball's own; air_density : [kg/m^3].
 
     Returns
     -------
     dict
         ``inputs`` (every parameter used, SI), ``net_crossing`` (or None) and ``landing``.
     """
-    preset = ball_params(ball)
-    model = get_aero_model(aero or preset["aero_model"])
-    params = FlightParams(
-        mass=preset["mass_kg"],
-        radius=preset["radius_m"],
-        air_density=air_density,
-        aero=model,
-        spin_decay_rate=spin_decay_rate,
-        wind=wind,
-    )
+    params = flight_params(domain.load_ball(ball), air_density, aero, spin_decay_rate, wind)
     axis = np.asarray(spin_axis, dtype=float)
     axis = axis / np.linalg.norm(axis)
     v0 = launch_velocity(speed, elevation, azimuth)
@@ -103,7 +106,7 @@ def simulate_feed(
         "mass_kg": params.mass,
         "radius_m": params.radius,
         "air_density_kgm3": float(air_density),
-        "aero_model": model.name,
+        "aero_model": params.aero.name,
         "spin_decay_rate_per_s": spin_decay_rate,
         "wind_mps": list(params.wind),
         "gravity_mps2": params.gravity,

@@ -1,0 +1,242 @@
+"""Options and input helpers shared by the commands: condition overrides, the scenario with them,
+whole numbers and points, output files and folders, and printing a table or JSON.
+
+Everything here parses user input into library values, or prints; nothing computes physics.
+Heavy imports (the library's solvers, pandas, matplotlib) stay inside the functions, so that
+``rallyarc --help`` starts fast.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import click
+
+from rallyarc import units
+from rallyarc.errors import InputError
+
+SCENARIO_HELP = "Scenario preset or TOML file: conditions and incoming ball."
+FIGURE_SUFFIXES = (".png", ".pdf", ".svg")
+
+
+def emit(data, as_json, lines):
+    """Print ``data`` as indented JSON, or the text ``lines``."""
+    if as_json:
+        click.echo(json.dumps(data, indent=2))
+    else:
+        for line in lines:
+            click.echo(line)
+
+
+def json_option(help="Print a JSON object."):
+    return click.option("--json", "as_json", is_flag=True, help=help)
+
+
+def dt_option(func):
+    return click.option(
+        "--dt", default="0.005", show_default=True, help="Trajectory time step [s]."
+    )(func)
+
+
+def time_step(dt):
+    """The ``--dt`` value [s]."""
+    return units.number(dt, "--dt", 0.0005, 0.1)
+
+
+def force_option(help="Overwrite an existing output file."):
+    return click.option("--force", is_flag=True, help=help)
+
+
+def whole(text, option, low, high):
+    """A whole number within ``[low, high]``; the error names the option and the range."""
+    try:
+        value = int(str(text))
+    except ValueError:
+        raise InputError(f"{option}: expected a whole number, got {text!r}") from None
+    if not low <= value <= high:
+        raise InputError(f"{option}: must be a whole number from {low} to {high}, got {text}")
+    return value
+
+
+def court_point(text, option="--target"):
+    """A point ``X,Y`` on the court [m]."""
+    parts = str(text).split(",")
+    if len(parts) != 2:
+        raise InputError(f"{option}: expected a landing point X,Y in metres, got {text!r}")
+    return tuple(units.number(p.strip(), option, -15.0, 15.0) for p in parts)
+
+
+def figure_path(text, option="--out", suffixes=FIGURE_SUFFIXES):
+    """An output file path with one of ``suffixes`` that is not a folder."""
+    path = Path(text)
+    if path.suffix.lower() not in suffixes:
+        raise InputError(f"{option}: {path} must end in {', '.join(suffixes)}")
+    if path.exists() and path.is_dir():
+        raise InputError(f"{option}: {path} is a folder, not a file")
+    return path
+
+
+def output_folder(out_dir, names, force):
+    """The ``--out`` folder (or None), refused if it is a file or would overwrite any of
+    ``names`` without ``force``."""
+    from rallyarc.output import export
+
+    if out_dir is None:
+        return None
+    folder = Path(out_dir)
+    if folder.exists() and not folder.is_dir():
+        raise InputError(f"--out: {folder} is a file, not a folder")
+    export.check_targets([folder / n for n in names], force)
+    return folder
+
+
+def check_file(path, force, option="--csv"):
+    """Refuse to overwrite an existing output file without ``force``."""
+    from rallyarc.output import export
+
+    if path is not None:
+        export.check_targets([path], force, option)
+
+
+# ----------------------------------------------------------------------------- conditions
+
+
+def condition_options(func):
+    """--ball, --racket, --air, --surface and --receiver-plane: overrides of a scenario."""
+    for opt in reversed(
+        [
+            click.option("--ball", default=None, help="Ball preset or TOML file."),
+            click.option("--racket", default=None, help="Racket preset or TOML file."),
+            click.option("--air", default=None, help="Air preset or TOML file."),
+            click.option("--surface", "surface_name", default=None, help="Surface preset or file."),
+            click.option(
+                "--receiver-plane",
+                default=None,
+                help="Receiver's contact plane behind the far baseline [m], 0 to 10.",
+            ),
+        ]
+    ):
+        func = opt(func)
+    return func
+
+
+def scenario_with(scenario, ball, racket, air, surface_name, receiver_plane):
+    """The scenario with any condition the user overrides."""
+    from dataclasses import replace
+
+    from rallyarc import domain
+
+    sc = domain.load_scenario(scenario)
+    changes = {}
+    if ball is not None:
+        changes["ball"] = domain.load_ball(ball)
+    if racket is not None:
+        changes["racket"] = domain.load_racket(racket)
+    if air is not None:
+        changes["air"] = domain.load_air(air)
+    if surface_name is not None:
+        changes["surface"] = domain.load_surface(surface_name)
+        changes["surface_name"] = surface_name
+    if receiver_plane is not None:
+        changes["receiver_plane_m"] = units.number(receiver_plane, "--receiver-plane", 0.0, 10.0)
+    return replace(sc, conditions=replace(sc.conditions, **changes)) if changes else sc
+
+
+def ball_state(incoming):
+    """The BallState of an ``[incoming]`` table (user units)."""
+    from rallyarc import domain
+    from rallyarc.shot import BallState
+
+    return BallState.of(*domain.incoming_state(incoming))
+
+
+def incoming_ball(sc):
+    """The scenario's incoming ball, or None (serves only)."""
+    return ball_state(sc.incoming) if sc.incoming else None
+
+
+def incoming_table(sc):
+    """A copy of the scenario's ``[incoming]`` table, which a groundstroke needs."""
+    if sc.incoming is None:
+        raise InputError(f"--scenario: {sc.where} has no [incoming] ball for a groundstroke")
+    return dict(sc.incoming)
+
+
+# ----------------------------------------------------------------------------- figures and scenes
+
+
+def scenario_options(func):
+    """SCENARIO argument, --stroke and the condition overrides shared by the figure commands."""
+    func = condition_options(func)
+    func = click.option(
+        "--stroke",
+        "stroke_names",
+        multiple=True,
+        help="Only these strokes of the scenario (repeat the option); default: all.",
+    )(func)
+    return click.argument("scenario", default="demo")(func)
+
+
+def spread_options(func):
+    """--scatter and --seed: shots with a player's execution scatter."""
+    func = click.option("--seed", default="0", show_default=True, help="Seed of the scatter.")(func)
+    return click.option(
+        "--scatter",
+        default="0",
+        show_default=True,
+        help="Shots per stroke with a player's execution scatter, 0 to 2000 (0: one each).",
+    )(func)
+
+
+def figure_output_option(default):
+    """--out (a figure file) and --force."""
+
+    def deco(func):
+        func = click.option("--force", is_flag=True, help="Overwrite an existing file.")(func)
+        return click.option(
+            "--out", default=default, show_default=True, help="Figure file: .png, .pdf or .svg."
+        )(func)
+
+    return deco
+
+
+def load_strokes(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane):
+    """The scenario with its overrides, the strokes chosen by name (default: all) and the
+    incoming ball."""
+    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    strokes = list(sc.strokes)
+    if stroke_names:
+        by_name = {s.name: s for s in strokes}
+        missing = [n for n in stroke_names if n not in by_name]
+        if missing:
+            raise InputError(
+                f"--stroke: {missing[0]!r} is not a stroke of scenario {sc.name}; "
+                f"choose from {', '.join(by_name)}"
+            )
+        strokes = [by_name[n] for n in stroke_names]
+    return sc, strokes, incoming_ball(sc)
+
+
+def play_shots(sc, strokes, incoming, scatter, seed):
+    """One shot per stroke, or ``--scatter`` scattered shots per stroke."""
+    from rallyarc import sweep
+    from rallyarc.shot import play
+
+    n = int(units.number(scatter, "--scatter", 0, 2000))
+    if n != float(scatter):
+        raise InputError(f"--scatter: expected a whole number from 0 to 2000, got {scatter}")
+    if n == 0:
+        return play(strokes, sc.conditions, incoming)
+    s = int(units.number(seed, "--seed", 0, 2**32 - 1))
+    return sweep.dispersion(strokes, sc.conditions, incoming, n, seed=s)
+
+
+def save_figure(fig, path):
+    """Write a matplotlib figure atomically, then free it."""
+    from rallyarc.viz import plots
+
+    try:
+        return plots.save_figure(fig, path)
+    finally:
+        fig.clear()

@@ -1,0 +1,92 @@
+"""``rallyarc rally``: a pattern pair played out over many rallies.
+
+The command only parses options and calls :func:`rallyarc.rally.play_rallies` and
+:func:`rallyarc.rally.summarize`; the tables, summary and figures go into ``--out``.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import sys
+
+import click
+
+from rallyarc.cli.options import force_option, json_option, output_folder, whole
+
+#: Files the command writes into --out.
+OUTPUTS = (
+    "shots.csv",
+    "shots.parquet",
+    "rallies.csv",
+    "summary.json",
+    "landing_heatmaps.png",
+    "contact_heights.png",
+    "spin_exchange.png",
+)
+MAX_RALLIES = 200_000
+
+
+@click.command("rally")
+@click.argument("patterns", default="demo_match")
+@click.option(
+    "--rallies", default="10000", show_default=True, help="Rallies to play (1 to 200000)."
+)
+@click.option("--seed", default="0", show_default=True, help="Random seed (0 to 2^32 - 1).")
+@click.option(
+    "--max-shots", default=None, help="Longest rally in shots (1 to 200; default: the file's)."
+)
+@click.option("--out", "out_dir", default=None, help="Write tables, summary and figures here.")
+@force_option("Overwrite existing files in --out.")
+@click.option(
+    "--workers",
+    default="auto",
+    show_default=True,
+    help="Processes (1 to 64, or auto: one per core); the tables do not depend on it.",
+)
+@click.option("--quiet", is_flag=True, help="No progress bar.")
+@json_option("Print the summary as JSON.")
+def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as_json):
+    """Play a pattern pair (a preset name or a TOML file) over many rallies with execution
+    scatter: per-shot table, summary and figures."""
+    from rallyarc.rally import load_patterns, play_rallies, summarize, summary_lines
+
+    n = whole(rallies, "--rallies", 1, MAX_RALLIES)
+    s = whole(seed, "--seed", 0, 2**32 - 1)
+    limit = None if max_shots is None else whole(max_shots, "--max-shots", 1, 200)
+    procs = (os.cpu_count() or 1) if workers == "auto" else whole(workers, "--workers", 1, 64)
+    pat = load_patterns(patterns)
+    folder = output_folder(out_dir, OUTPUTS, force)
+    progress = not quiet and not as_json and sys.stderr.isatty()
+    run = play_rallies(pat, n=n, seed=s, max_shots=limit, progress=progress, workers=procs)
+    summary = summarize(run)
+    lines = summary_lines(summary)
+    if folder is not None:
+        written = write_outputs(run, summary, folder)
+        lines.append("written: " + ", ".join(str(p) for p in written))
+    if as_json:
+        click.echo(json.dumps(summary, indent=2))
+    else:
+        click.echo("\n".join(lines))
+
+
+def write_outputs(run, summary, folder):
+    """Write the tables, the summary and the figures of a run into ``folder`` (atomic writes);
+    returns the paths written."""
+    from rallyarc.output import export
+    from rallyarc.viz import rally_plots
+
+    figures = {
+        "landing_heatmaps.png": rally_plots.landing_heatmaps(run.shots, summary),
+        "contact_heights.png": rally_plots.contact_height_histograms(run.shots, summary),
+        "spin_exchange.png": rally_plots.spin_exchange(run.shots, summary),
+    }
+    written = [
+        export.write_frame(folder / "shots.csv", run.shots),
+        export.write_frame(folder / "shots.parquet", run.shots),
+        export.write_frame(folder / "rallies.csv", run.rallies),
+        export.write_json(folder / "summary.json", summary),
+    ]
+    for name, fig in figures.items():
+        written.append(rally_plots.save_figure(fig, folder / name))
+    return written

@@ -1,0 +1,71 @@
+"""``rallyarc scene``: a scenario's shots in 3D (pyvista), rendered off screen, exported as a
+self-contained HTML page or glTF, or shown in a window."""
+
+from __future__ import annotations
+
+import click
+
+from rallyarc.cli.options import (
+    figure_path,
+    load_strokes,
+    play_shots,
+    scenario_options,
+    spread_options,
+)
+from rallyarc.errors import InputError
+
+
+@click.command("scene")
+@scenario_options
+@spread_options
+@click.option(
+    "--camera",
+    type=click.Choice(["hitter", "side", "receiver", "overhead", "all"]),
+    default="hitter",
+    show_default=True,
+    help="Camera preset; 'all' writes one PNG per preset (NAME_hitter.png, ...).",
+)
+@click.option("--out", default="scene.png", show_default=True, help="PNG rendered off screen.")
+@click.option(
+    "--export",
+    "export_path",
+    default=None,
+    help="Also export the scene: .html (opens in a web browser) or .gltf.",
+)
+@click.option("--show", is_flag=True, help="Open an interactive window (needs a display).")
+@click.option("--force", is_flag=True, help="Overwrite existing files.")
+def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter, seed,
+          camera, out, export_path, show, force):  # fmt: skip
+    """The shots of SCENARIO in 3D: court, net, paths as tubes, markers at contact, net crossing,
+    bounce and apex. Rendered off screen to PNG; --export writes a self-contained HTML page (any
+    web browser, no Python) or a glTF file; --show opens a window."""
+    from rallyarc.output import export
+    from rallyarc.viz import scene as scenes
+
+    png = figure_path(out, "--out", (".png",))
+    cameras = list(scenes.CAMERAS) if camera == "all" else [camera]
+    pngs = (
+        [png.with_name(f"{png.stem}_{c}{png.suffix}") for c in cameras]
+        if camera == "all"
+        else [png]
+    )
+    targets = list(pngs)
+    if export_path is not None:
+        export_path = figure_path(export_path, "--export", (".html", ".gltf"))
+        targets.append(export_path)
+    export.check_targets(targets, force)
+    if show and not scenes.has_display():
+        raise InputError("--show: no display found (DISPLAY is not set); the PNG is still written "
+                         "without --show")  # fmt: skip
+    sc, strokes, incoming = load_strokes(
+        scenario, stroke_names, ball, racket, air, surface_name, receiver_plane
+    )
+    result = play_shots(sc, strokes, incoming, scatter, seed)
+    written = []
+    for c, p in zip(cameras, pngs, strict=True):
+        written.append(scenes.render_scene(result, png_path=p, camera=c))
+    if export_path is not None:
+        written.append(scenes.render_scene(result, export_path=export_path, camera=cameras[0]))
+    click.echo("written: " + ", ".join(str(w) for w in written))
+    if show:
+        scenes.render_scene(result, camera=cameras[0], show=True)
