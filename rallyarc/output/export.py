@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import json
 import os
-import tempfile
+import secrets
 from pathlib import Path
 
 from rallyarc.errors import InputError
@@ -26,33 +26,50 @@ def check_targets(paths, force, option="--out"):
 
 
 def atomic_write(path, write):
-    """Call ``write(tmp_path)`` to produce the file, then move it to ``path``."""
+    """Call ``write(tmp_path)`` to produce the file, then move it to ``path``.
+
+    The temporary file is a new sibling of ``path``, created with mode 0666 so that the kernel
+    applies the process's umask, as for any new file; a file being replaced keeps its mode.
+    """
     path = Path(path)
     folder = path.parent if str(path.parent) else Path(".")
     folder.mkdir(parents=True, exist_ok=True)
-    # the temporary file keeps the real suffix, for writers that choose the format by it
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=f".part{path.suffix}", dir=folder)
-    os.close(fd)
+    tmp = None
     try:
+        tmp, mode = _new_sibling(folder, path)
         write(tmp)
-        # mkstemp makes the file private (0600); give it the mode a plain new file would get
-        os.chmod(tmp, _existing_mode(path))
+        # the writer may have replaced the file; give it back the mode it is meant to have
+        os.chmod(tmp, _existing_mode(path, mode))
         os.replace(tmp, path)
     except BaseException:
-        if os.path.exists(tmp):
+        if tmp is not None and os.path.exists(tmp):
             os.unlink(tmp)
         raise
     return path
 
 
-def _existing_mode(path):
-    """The mode of the file being replaced, or what the process's umask gives a new file."""
+def _new_sibling(folder, path):
+    """A new empty file beside ``path`` and the mode the umask gave it. The name keeps the real
+    suffix, for writers that choose the format by it."""
+    flags = os.O_CREAT | os.O_EXCL | os.O_WRONLY | getattr(os, "O_CLOEXEC", 0)
+    while True:
+        tmp = folder / f".{path.name}.{secrets.token_hex(4)}.part{path.suffix}"
+        try:
+            fd = os.open(tmp, flags, 0o666)
+        except FileExistsError:  # another writer's name: draw again
+            continue
+        try:
+            return str(tmp), os.fstat(fd).st_mode & 0o7777
+        finally:
+            os.close(fd)
+
+
+def _existing_mode(path, new_mode):
+    """The mode of the file being replaced, or ``new_mode`` when there is none."""
     try:
         return os.stat(path).st_mode & 0o7777
     except FileNotFoundError:
-        umask = os.umask(0)
-        os.umask(umask)
-        return 0o666 & ~umask
+        return new_mode
 
 
 def write_text(path, text):
