@@ -4,7 +4,9 @@
 flight to the receiver's plane, metrics) in chunks of ``chunk`` shots. Each chunk is one
 vectorized call without trajectories; its metrics are written into preallocated columns at the
 chunk's own rows, so the result does not depend on the number of processes or the order in which
-chunks finish, and memory stays at the columns plus a few chunks in flight.
+chunks finish, and memory stays at the columns plus a few chunks in flight. A chunk's shots are
+taken from the source as it is handed out, and travel to its worker with the run's settings as
+the task's arguments: no module keeps any state of a run.
 
 The shots come from a *source*: an object with ``len(source)`` and ``source.take(start, stop)``
 returning ``(incoming, swing, serve)`` for shots ``start`` to ``stop - 1``. :class:`ShotArrays`
@@ -14,6 +16,7 @@ a seed, block by block, so that a run of 10^7 shots never holds all its inputs a
 
 from __future__ import annotations
 
+import functools
 import multiprocessing
 import os
 from concurrent.futures import FIRST_COMPLETED, ProcessPoolExecutor, wait
@@ -192,22 +195,11 @@ def _cores():
         return os.cpu_count() or 1
 
 
-# the source and settings of a run, set in each worker process by _init_worker
-_WORK = {}
-
-
-def _init_worker(source, conditions, columns, rtol):
-    _WORK.update(source=source, conditions=conditions, columns=columns, rtol=rtol)
-
-
-def _play_chunk(start, stop):
-    """Metrics of shots ``start`` to ``stop - 1`` of the worker's source."""
-    incoming, swing, serve = _WORK["source"].take(start, stop)
-    res = simulate(
-        incoming, swing, _WORK["conditions"], serve=serve, record=False, rtol=_WORK["rtol"]
-    )
-    columns = _WORK["columns"] or list(res.metrics)
-    return start, stop, {c: res.metrics[c] for c in columns}
+def _play_chunk(shots, conditions, columns, rtol):
+    """Metrics of one chunk of shots, ``(incoming, swing, serve)`` from ``source.take``."""
+    incoming, swing, serve = shots
+    res = simulate(incoming, swing, conditions, serve=serve, record=False, rtol=rtol)
+    return {c: res.metrics[c] for c in (columns or list(res.metrics))}
 
 
 def run_batch(
@@ -276,32 +268,25 @@ def run_batch(
         if progress is not None:
             progress(done)
 
+    # each task carries its own shots and settings: nothing is left in a module of this process
+    # or of the workers, and only a chunk's inputs travel to a worker, not the whole source
+    play = functools.partial(_play_chunk, conditions=conditions, columns=columns, rtol=rtol)
     if workers == 1 or len(bounds) <= 1:
-        _init_worker(source, conditions, columns, rtol)
-        try:
-            for start, stop in bounds:
-                store(*_play_chunk(start, stop))
-        finally:
-            _WORK.clear()
+        for start, stop in bounds:
+            store(start, stop, play(source.take(start, stop)))
         return BatchResult(out)
 
     methods = multiprocessing.get_all_start_methods()
     context = multiprocessing.get_context("fork" if "fork" in methods else "spawn")
-    with ProcessPoolExecutor(
-        max_workers=workers,
-        mp_context=context,
-        initializer=_init_worker,
-        initargs=(source, conditions, columns, rtol),
-    ) as pool:
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
         # a bounded window of chunks in flight keeps memory flat however long the run
-        pending = set()
-        todo = iter(bounds)
-        for start, stop in todo:
-            pending.add(pool.submit(_play_chunk, start, stop))
+        pending = {}
+        for start, stop in bounds:
+            pending[pool.submit(play, source.take(start, stop))] = (start, stop)
             if len(pending) >= 2 * workers:
-                finished, pending = wait(pending, return_when=FIRST_COMPLETED)
+                finished, _ = wait(pending, return_when=FIRST_COMPLETED)
                 for fut in finished:
-                    store(*fut.result())
-        for fut in pending:
-            store(*fut.result())
+                    store(*pending.pop(fut), fut.result())
+        for fut, (start, stop) in pending.items():
+            store(start, stop, fut.result())
     return BatchResult(out)

@@ -31,7 +31,7 @@ def test_two_processes_give_exactly_the_metrics_of_one_simulate_call(cond, shots
     # 700 shots in chunks of 50: 14 chunks over 2 processes, finishing in any order
     got = run_batch(ShotArrays(incoming, swing, serve), cond, workers=2, chunk=50).metrics
     _assert_same(got, want)
-    # the source drawn inside the workers gives the same shots
+    # the source drawn chunk by chunk gives the same shots
     _assert_same(run_batch(shots, cond, workers=2, chunk=64).metrics, want)
     # a mixture of outcomes, so that every branch of the chain is compared
     assert {"in", "net", "long"} <= set(want["outcome"])
