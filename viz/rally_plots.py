@@ -20,7 +20,7 @@ from matplotlib.patches import Patch, Rectangle
 from rallyarc import court
 from rallyarc.output.export import atomic_write
 from rallyarc.viz import palette
-from rallyarc.viz.plots import draw_court_lines
+from rallyarc.viz.common import draw_court_lines
 
 _DPI = 120
 #: Most points drawn per panel of the spin exchange (a random subset beyond it, fixed seed).
@@ -172,60 +172,7 @@ def contact_height_histograms(shots, summary):
     edges = np.asarray(summary["contact_height"][names[0]]["histogram"]["edges_m"], float)
     rb = shots[shots["serve"] == ""]
     for ax, name in zip(axes, names, strict=True):
-        mine = rb[rb["player"] == name]
-        info = summary["players"][name]
-        h = summary["contact_height"][name]
-        total = max(1, len(mine))
-        left = np.zeros(edges.size - 1)
-        for phase, colour in _PHASE_COLOURS.items():
-            part = mine[mine["contact_phase"] == phase]["contact_height_m"]
-            c, _ = np.histogram(part, bins=edges)
-            share = c / total * 100
-            ax.barh(
-                edges[:-1],
-                share,
-                height=np.diff(edges),
-                left=left,
-                align="edge",
-                color=colour,
-                ec="white",
-                lw=0.5,
-                label=f"met on the {phase}" if phase != "apex" else "met at the apex",
-            )
-            left += share
-        lo, hi = info["preferred_contact_height_m"]
-        ax.axhspan(lo, hi, color=palette.VARIANT_HEX[5], alpha=0.15, lw=0, zorder=0)
-        shoulder = info["shoulder_height_m"]
-        ax.axhline(shoulder, color=palette.VARIANT_HEX[3], lw=1.6, ls="--")
-        xmax = max(5.0, left.max() * 1.45)
-        ax.set_xlim(0, xmax)
-        ax.text(
-            xmax * 0.98,
-            shoulder + 0.03,
-            f"shoulder {shoulder:.2f} m",
-            ha="right",
-            va="bottom",
-            fontsize=8,
-            color=palette.VARIANT_HEX[3],
-        )
-        ax.text(
-            xmax * 0.98,
-            hi - 0.03,
-            f"preferred {lo:.2f}-{hi:.2f} m",
-            ha="right",
-            va="top",
-            fontsize=8,
-            color=palette.VARIANT_HEX[5],
-        )
-        share = h["above_shoulder_share"]
-        above = "-" if share is None else f"{share * 100:.1f} %"
-        ax.set_title(
-            f"{name}: {len(mine)} rally-ball contacts, above the shoulder {above}",
-            fontsize=10,
-        )
-        ax.set_xlabel("share of the player's contacts [%]")
-        ax.grid(axis="x", color="#dddddd", lw=0.6)
-        ax.set_axisbelow(True)
+        _contact_panel(ax, name, rb[rb["player"] == name], summary, edges)
     axes[0].set_ylabel("ball centre height at contact [m]")
     top = max(
         max(summary["players"][n]["shoulder_height_m"] for n in names) + 0.6,
@@ -250,6 +197,64 @@ def contact_height_histograms(shots, summary):
     )
     fig.suptitle(f"{summary['patterns']}: contact heights\n{source}", fontsize=10)
     return fig
+
+
+def _contact_panel(ax, name, mine, summary, edges):
+    """One player's contact heights: shares of the contacts per height bin, stacked by phase,
+    with the preferred range and the shoulder height marked."""
+    info = summary["players"][name]
+    h = summary["contact_height"][name]
+    total = max(1, len(mine))
+    left = np.zeros(edges.size - 1)
+    for phase, colour in _PHASE_COLOURS.items():
+        part = mine[mine["contact_phase"] == phase]["contact_height_m"]
+        c, _ = np.histogram(part, bins=edges)
+        share = c / total * 100
+        ax.barh(
+            edges[:-1],
+            share,
+            height=np.diff(edges),
+            left=left,
+            align="edge",
+            color=colour,
+            ec="white",
+            lw=0.5,
+            label=f"met on the {phase}" if phase != "apex" else "met at the apex",
+        )
+        left += share
+    lo, hi = info["preferred_contact_height_m"]
+    ax.axhspan(lo, hi, color=palette.VARIANT_HEX[5], alpha=0.15, lw=0, zorder=0)
+    shoulder = info["shoulder_height_m"]
+    ax.axhline(shoulder, color=palette.VARIANT_HEX[3], lw=1.6, ls="--")
+    xmax = max(5.0, left.max() * 1.45)
+    ax.set_xlim(0, xmax)
+    ax.text(
+        xmax * 0.98,
+        shoulder + 0.03,
+        f"shoulder {shoulder:.2f} m",
+        ha="right",
+        va="bottom",
+        fontsize=8,
+        color=palette.VARIANT_HEX[3],
+    )
+    ax.text(
+        xmax * 0.98,
+        hi - 0.03,
+        f"preferred {lo:.2f}-{hi:.2f} m",
+        ha="right",
+        va="top",
+        fontsize=8,
+        color=palette.VARIANT_HEX[5],
+    )
+    share = h["above_shoulder_share"]
+    above = "-" if share is None else f"{share * 100:.1f} %"
+    ax.set_title(
+        f"{name}: {len(mine)} rally-ball contacts, above the shoulder {above}",
+        fontsize=10,
+    )
+    ax.set_xlabel("share of the player's contacts [%]")
+    ax.grid(axis="x", color="#dddddd", lw=0.6)
+    ax.set_axisbelow(True)
 
 
 def spin_exchange(shots, summary):

@@ -14,6 +14,7 @@ far baseline, y to the hitter's left, z up, metres).
 from __future__ import annotations
 
 import os
+from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
@@ -21,7 +22,7 @@ import numpy as np
 from rallyarc import court
 from rallyarc.output.export import atomic_write
 from rallyarc.viz import palette
-from rallyarc.viz.plots import display_label, drawn, variant_groups
+from rallyarc.viz.common import display_label, drawn, variant_groups
 
 #: Camera presets: (position, focal point, view up) in the court frame [m].
 CAMERAS = {
@@ -172,6 +173,34 @@ def _marker(pv, kind, point, r):
     return pv.Cone(center=(x, y, z + 2 * r), direction=(0, 0, -1), height=4 * r, radius=2 * r)
 
 
+@dataclass(frozen=True)
+class ScenePage:
+    """What a scene shows beside its meshes: the title, the legend (label and colour of each
+    stroke), the line that explains the markers, and the camera it opens with. The HTML
+    export (:mod:`viz.scene_html`) writes these on the page."""
+
+    title: str
+    legend: list
+    markers: str
+    start: str
+
+
+def scene_page(result, camera="hitter"):
+    """The :class:`ScenePage` of the scene of ``result`` seen from ``camera``."""
+    c = result.conditions
+    groups = variant_groups(result)
+    order = [label for label, _, _ in groups]
+    legend = [[display_label(label), palette.variant_colour(k)] for label, _, k in groups]
+    markers = (
+        " | ".join(MARKER_WORDS.values())
+        if len(result) <= _MANY
+        else f"thin tubes: {len(result)} scattered shots (up to {max(1, 60 // len(order))} drawn "
+        "per stroke)"
+    )
+    title = f"{', '.join(display_label(x) for x in order)} on {c.surface_name}"
+    return ScenePage(title, legend, markers, camera)
+
+
 def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=True, dt=0.004):
     """A pyvista Plotter showing the shots of ``result`` on the court.
 
@@ -202,12 +231,10 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
     _net(pv, plotter, c.singles)
 
     groups = variant_groups(result)
-    order = [label for label, _, _ in groups]
     many = len(result) > _MANY
-    legend = []
-    for label, idx, k in groups:
+    for _, idx, k in groups:
         colour = palette.variant_colour(k)
-        for i in drawn(idx, many, limit=max(1, 60 // len(order))):
+        for i in drawn(idx, many, limit=max(1, 60 // len(groups))):
             _, pos, _ = result.path(i, dt=dt)
             pos = pos[np.all(np.isfinite(pos), axis=1)]
             if len(pos) < 2:
@@ -222,29 +249,19 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
                 continue
             for kind, point in _events(result, i).items():
                 plotter.add_mesh(_marker(pv, kind, point, r), color=colour, smooth_shading=True)
-        legend.append([display_label(label), colour])
-    height = min(0.4, 0.01 + 0.026 * len(legend))
-    box = plotter.add_legend(labels=legend, bcolor="white", border=True, size=(0.18, height),
-                             loc="upper right", face="rectangle")  # fmt: skip
+    page = scene_page(result, camera)
+    height = min(0.4, 0.01 + 0.026 * len(page.legend))
+    box = plotter.add_legend(labels=page.legend, bcolor="white", border=True,
+                             size=(0.18, height), loc="upper right", face="rectangle")  # fmt: skip
     box.SetPosition(0.80, 0.975 - height)  # fixed corner: the box no longer shrinks to few rows
     box.SetPosition2(0.18, height)
-    words = (
-        " | ".join(MARKER_WORDS.values())
-        if not many
-        else f"thin tubes: {len(result)} scattered shots (up to {max(1, 60 // len(order))} drawn "
-        "per stroke)"
-    )
     plotter.add_text(
         f"{c.surface_name}, ball {c.ball.name} - camera: {CAMERA_WORDS[camera]}",
         position="upper_left", font_size=11, color=palette.COURT_HEX["ink"],
     )  # fmt: skip
-    plotter.add_text(words, position="lower_left", font_size=10, color=palette.COURT_HEX["ink"])
-    plotter._rallyarc_page = {  # what the HTML export shows beside the meshes
-        "title": f"{', '.join(display_label(x) for x in order)} on {c.surface_name}",
-        "legend": legend,
-        "markers": words,
-        "start": camera,
-    }
+    plotter.add_text(
+        page.markers, position="lower_left", font_size=10, color=palette.COURT_HEX["ink"]
+    )
     position, focal, up = CAMERAS[camera]
     plotter.camera_position = [position, focal, up]
     plotter.camera.view_angle = 38.0 if camera != "overhead" else 34.0
@@ -272,7 +289,8 @@ def render_scene(
             if png_path is not None:
                 written = atomic_write(png_path, lambda tmp: plotter.screenshot(tmp))
             if export_path is not None:
-                out = atomic_write(export_path, lambda tmp: _export(plotter, tmp))
+                page = scene_page(result, camera)
+                out = atomic_write(export_path, lambda tmp: _export(plotter, page, tmp))
                 written = written or out
         finally:
             plotter.close()
@@ -282,14 +300,13 @@ def render_scene(
     return written
 
 
-def _export(plotter, path):
-    """glTF 2.0 with its buffers inline (.gltf), or a self-contained HTML page (.html)."""
+def _export(plotter, page, path):
+    """glTF 2.0 with its buffers inline (.gltf), or a self-contained HTML page (.html) with the
+    scene's :class:`ScenePage`."""
     if str(path).lower().endswith(".html"):
-        from rallyarc.viz.scene_html import page
+        from rallyarc.viz.scene_html import page as html_page
 
-        info = plotter._rallyarc_page
-        text = page(plotter, info["title"], info["legend"], info["markers"], CAMERAS,
-                    info["start"])  # fmt: skip
+        text = html_page(plotter, page.title, page.legend, page.markers, CAMERAS, page.start)
         with open(path, "w", encoding="utf-8") as fh:
             fh.write(text)
         return

@@ -48,6 +48,18 @@ def not_blank(img):
 # ----------------------------------------------------------------------------- 2D figures
 
 
+def test_plots_gathers_the_figures_of_their_own_modules():
+    """``rallyarc.viz.plots`` is the one import for the 2D figures; each lives in a module of
+    its own (side, top, sweeps, window, common)."""
+    from rallyarc.viz import common, side, sweeps, top, window
+
+    assert plots.side_view is side.side_view and plots.top_view is top.top_view
+    assert plots.sweep_plot is sweeps.sweep_plot and plots.window_plot is window.window_plot
+    assert plots.save_figure is common.save_figure and plots.METRICS is sweeps.METRICS
+    for name in plots.__all__:
+        assert getattr(plots, name) is not None, name
+
+
 def test_side_view_png_has_its_size_and_each_variant_colour(demo, tmp_path):
     sc, _, result = demo
     fig = plots.side_view(result)
@@ -229,6 +241,24 @@ def test_scene_exports_gltf_with_a_material_per_variant_colour(demo, tmp_path):
 def test_scene_rejects_an_unknown_camera(demo):
     with pytest.raises(ValueError, match="unknown camera"):
         scene.build_scene(demo[2], camera="blimp")
+
+
+def test_scene_page_is_data_of_its_own_not_stored_on_the_plotter(demo, tmp_path):
+    """The HTML page's title, legend and marker words come from :func:`scene.scene_page`, passed
+    to the export; the pyvista plotter carries no attribute of ours."""
+    sc, _, result = demo
+    page = scene.scene_page(result, camera="side")
+    assert page.start == "side"
+    assert [label for label, _ in page.legend] == [plots.display_label(s.name) for s in sc.strokes]
+    assert page.legend[0][1] == palette.variant_colour(0)
+    assert page.markers == " | ".join(scene.MARKER_WORDS.values())
+    plotter = scene.build_scene(result, camera="side", window_size=(320, 200))
+    try:
+        assert not [a for a in vars(plotter) if "rallyarc" in a]
+    finally:
+        plotter.close()
+    text = scene.render_scene(result, export_path=tmp_path / "s.html", camera="side").read_text()
+    assert page.title in text and page.markers in text
 
 
 # ----------------------------------------------------------------------------- commands
