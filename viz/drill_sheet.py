@@ -2,13 +2,12 @@
 
 from __future__ import annotations
 
-import matplotlib
+import numpy as np
+from matplotlib.backends.backend_agg import FigureCanvasAgg
+from matplotlib.figure import Figure
+from matplotlib.patches import Rectangle
 
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-
-from rallyarc import court  # noqa: E402
+from rallyarc import court
 
 #: Colours of the sheet (our own choice; dark blue ink, an orange for targets that is told apart
 #: from the blue by lightness as well as hue).
@@ -21,11 +20,11 @@ LINE = "#ffffff"
 def _court(ax):
     half_l, half_w = court.HALF_LENGTH, court.DOUBLES_WIDTH / 2
     ax.add_patch(
-        plt.Rectangle(
+        Rectangle(
             (-half_l - 3, -half_w - 2), 2 * half_l + 6, 2 * half_w + 4, color="#c9d8c5", zorder=0
         )
     )
-    ax.add_patch(plt.Rectangle((-half_l, -half_w), 2 * half_l, 2 * half_w, color=COURT, zorder=0))
+    ax.add_patch(Rectangle((-half_l, -half_w), 2 * half_l, 2 * half_w, color=COURT, zorder=0))
     sw = court.SINGLES_WIDTH / 2
     kw = {"color": INK, "lw": 1.0, "zorder": 1}
     for y in (-half_w, half_w, -sw, sw):
@@ -44,12 +43,49 @@ def _court(ax):
 
 
 def drill_sheet(drill, sheet, paths, safety, units="kmh"):
-    """Draw the sheet. ``paths`` maps a ball number to its (x, y) path points (court frame)."""
-    fig = plt.figure(figsize=(8.27, 11.69))  # A4 portrait
+    """Draw the sheet. ``paths`` maps a ball number to its (x, y) path points (court frame).
+
+    Returns a matplotlib Figure made without pyplot: no backend is chosen or switched, and the
+    figure is in no global figure list (save it with ``fig.savefig``).
+    """
+    fig = Figure(figsize=(8.27, 11.69))  # A4 portrait
+    FigureCanvasAgg(fig)
     fig.text(0.06, 0.965, drill.name, fontsize=16, weight="bold", color=INK)
     fig.text(0.06, 0.948, f"{drill.coach}, {drill.club}", fontsize=10, color=INK)
     fig.text(0.06, 0.932, drill.description, fontsize=9, wrap=True, va="top")
-    ax = fig.add_axes([0.08, 0.57, 0.86, 0.31])
+    _court_map(fig.add_axes([0.08, 0.57, 0.86, 0.31]), drill, sheet, paths)
+    _settings_table(fig.add_axes([0.06, 0.36, 0.88, 0.15]), sheet, units)
+    notes = [
+        f"{r.ball}. {r.label}" + ("" if r.reachable else f"  NOT REACHABLE: {r.note}")
+        for r in sheet.itertuples()
+    ]
+    notes.append(
+        "at player: ball height at the player's contact plane; time: from release to that plane;"
+        " - : the ball bounces twice before it gets there"
+    )
+    fig.text(0.06, 0.36, "\n".join(notes), fontsize=8, va="top", wrap=True)
+    fig.text(
+        0.06,
+        0.30,
+        safety,
+        fontsize=8.5,
+        va="top",
+        wrap=True,
+        color="#7a1f1f",
+        bbox={"boxstyle": "round", "fc": "#fbeeee", "ec": "#7a1f1f"},
+    )
+    fig.text(
+        0.06,
+        0.025,
+        "rallyarc drill sheet: settings from a physics model; test them with slow feeds first.",
+        fontsize=7,
+        color="#555555",
+    )
+    return fig
+
+
+def _court_map(ax, drill, sheet, paths):
+    """The court with the machine, each ball's path, its target (circle) and landing (cross)."""
     _court(ax)
     mx, my = drill.position
     ax.plot(mx, my, marker="s", ms=10, color=INK, zorder=4)
@@ -89,6 +125,10 @@ def drill_sheet(drill, sheet, paths, safety, units="kmh"):
     ax.set_title(
         "targets (circles), simulated landings (crosses), machine and ball paths", fontsize=9
     )
+
+
+def _settings_table(ax, sheet, units):
+    """The machine's settings and what each ball does, one row per ball."""
     speed_col, unit = ("speed_kmh", "km/h") if units == "kmh" else ("speed_mph", "mph")
 
     def f(v, fmt):
@@ -121,9 +161,8 @@ def drill_sheet(drill, sheet, paths, safety, units="kmh"):
         ]
         for r in sheet.itertuples()
     ]
-    tab_ax = fig.add_axes([0.06, 0.36, 0.88, 0.15])
-    tab_ax.axis("off")
-    table = tab_ax.table(cellText=cells, colLabels=cols, loc="upper center", cellLoc="center")
+    ax.axis("off")
+    table = ax.table(cellText=cells, colLabels=cols, loc="upper center", cellLoc="center")
     table.auto_set_font_size(False)
     table.set_fontsize(8)
     table.scale(1.0, 2.0)
@@ -131,30 +170,3 @@ def drill_sheet(drill, sheet, paths, safety, units="kmh"):
         if r == 0:
             cell.set_facecolor("#dde4ee")
             cell.set_height(cell.get_height() * 1.4)
-    notes = [
-        f"{r.ball}. {r.label}" + ("" if r.reachable else f"  NOT REACHABLE: {r.note}")
-        for r in sheet.itertuples()
-    ]
-    notes.append(
-        "at player: ball height at the player's contact plane; time: from release to that plane;"
-        " - : the ball bounces twice before it gets there"
-    )
-    fig.text(0.06, 0.36, "\n".join(notes), fontsize=8, va="top", wrap=True)
-    fig.text(
-        0.06,
-        0.30,
-        safety,
-        fontsize=8.5,
-        va="top",
-        wrap=True,
-        color="#7a1f1f",
-        bbox={"boxstyle": "round", "fc": "#fbeeee", "ec": "#7a1f1f"},
-    )
-    fig.text(
-        0.06,
-        0.025,
-        "rallyarc drill sheet: settings from a physics model; test them with slow feeds first.",
-        fontsize=7,
-        color="#555555",
-    )
-    return fig
