@@ -1,48 +1,105 @@
-"""Tables for people: the metrics of shots in the units a coach reads (km/h, rpm, degrees)."""
+"""Tables for people: the metrics of shots in the units a coach reads (km/h, rpm, degrees).
+
+Row names and units come from the metrics registry (:mod:`rallyarc.shot.metrics`); this module
+only chooses which metrics a table shows, in which unit, and with how many digits.
+"""
 
 from __future__ import annotations
 
 import numpy as np
 
+from rallyarc.shot.metrics import metric
 from rallyarc.units import KMH_PER_MPS
 
-#: (row label, metric key, scale, format). Rows with a None key are section headings.
-ROWS = (
-    ("swing", None, None, None),
-    ("head speed [km/h]", "swing:head_speed", KMH_PER_MPS, "{:.0f}"),
-    ("swing path [deg]", "swing:swing_path", "deg", "{:+.0f}"),
-    ("face tilt [deg]", "swing:face_tilt", "deg", "{:+.1f}"),
-    ("impact", None, None, None),
-    ("ball speed [km/h]", "impact_speed_mps", KMH_PER_MPS, "{:.0f}"),
-    ("launch angle [deg]", "impact_launch_deg", 1.0, "{:+.1f}"),
-    ("topspin [rpm]", "impact_topspin_rpm", 1.0, "{:+.0f}"),
-    ("sidespin [rpm]", "impact_sidespin_rpm", 1.0, "{:+.0f}"),
-    ("contact", "impact_regime", None, "{}"),
-    ("slip: linear [m/s]", "impact_slip_linear_mps", 1.0, "{:.1f}"),
-    ("slip: spin [m/s]", "impact_slip_spin_mps", 1.0, "{:.1f}"),
-    ("slip ratio", "impact_slip_ratio", 1.0, "{:+.2f}"),
-    ("spin limit reached", "impact_spin_limit_reached", None, "{}"),
-    ("net", None, None, None),
-    ("height at net [m]", "net_height_m", 1.0, "{:.2f}"),
-    ("net clearance [m]", "net_clearance_m", 1.0, "{:+.2f}"),
-    ("landing", None, None, None),
-    ("x [m]", "land_x_m", 1.0, "{:+.2f}"),
-    ("y [m]", "land_y_m", 1.0, "{:+.2f}"),
-    ("inside baseline [m]", "land_depth_m", 1.0, "{:+.2f}"),
-    ("inside sideline [m]", "land_side_margin_m", 1.0, "{:+.2f}"),
-    ("inside service line [m]", "land_box_depth_m", 1.0, "{:+.2f}"),
-    ("inside box sides [m]", "land_box_side_margin_m", 1.0, "{:+.2f}"),
-    ("outcome", "outcome", None, "{}"),
-    ("bounce", None, None, None),
-    ("speed in/out [km/h]", ("bounce_speed_in_mps", "bounce_speed_out_mps"), KMH_PER_MPS, "{:.0f}"),
-    ("angle in/out [deg]", ("bounce_angle_in_deg", "bounce_angle_out_deg"), 1.0, "{:.1f}"),
-    ("topspin in/out [rpm]", ("bounce_spin_in_rpm", "bounce_spin_out_rpm"), 1.0, "{:+.0f}"),
-    ("grip or slide", "bounce_regime", None, "{}"),
-    ("apex after bounce [m]", "bounce_apex_m", 1.0, "{:.2f}"),
-    ("at receiver plane [m]", "receiver_height_m", 1.0, "{:.2f}"),
-    ("time to bounce [s]", "bounce_t_s", 1.0, "{:.2f}"),
-    ("time to receiver [s]", "receiver_t_s", 1.0, "{:.2f}"),
+#: Factor from a metric's unit to the unit a table shows it in ("deg": radians to degrees).
+_CONVERT = {("m/s", "km/h"): KMH_PER_MPS, ("rad", "deg"): "deg"}
+#: Units the table does not write after a row name.
+_NO_UNIT = ("-", "text", "yes/no")
+#: The swing's fields (not metrics): SI unit of each.
+_SWING_UNITS = {"head_speed": "m/s", "swing_path": "rad", "face_tilt": "rad"}
+
+#: Sections of the comparison table: (heading, rows); a row is (metric key, or an (in, out) pair
+#: of keys, or ``swing:FIELD``; the unit shown, None for the metric's own; format).
+SECTIONS = (
+    (
+        "swing",
+        (
+            ("swing:head_speed", "km/h", "{:.0f}"),
+            ("swing:swing_path", "deg", "{:+.0f}"),
+            ("swing:face_tilt", "deg", "{:+.1f}"),
+        ),
+    ),
+    (
+        "impact",
+        (
+            ("impact_speed_mps", "km/h", "{:.0f}"),
+            ("impact_launch_deg", None, "{:+.1f}"),
+            ("impact_topspin_rpm", None, "{:+.0f}"),
+            ("impact_sidespin_rpm", None, "{:+.0f}"),
+            ("impact_regime", None, "{}"),
+            ("impact_slip_linear_mps", None, "{:.1f}"),
+            ("impact_slip_spin_mps", None, "{:.1f}"),
+            ("impact_slip_ratio", None, "{:+.2f}"),
+            ("impact_spin_limit_reached", None, "{}"),
+        ),
+    ),
+    ("net", (("net_height_m", None, "{:.2f}"), ("net_clearance_m", None, "{:+.2f}"))),
+    (
+        "landing",
+        (
+            ("land_x_m", None, "{:+.2f}"),
+            ("land_y_m", None, "{:+.2f}"),
+            ("land_depth_m", None, "{:+.2f}"),
+            ("land_side_margin_m", None, "{:+.2f}"),
+            ("land_box_depth_m", None, "{:+.2f}"),
+            ("land_box_side_margin_m", None, "{:+.2f}"),
+            ("outcome", None, "{}"),
+        ),
+    ),
+    (
+        "bounce",
+        (
+            (("bounce_speed_in_mps", "bounce_speed_out_mps"), "km/h", "{:.0f}"),
+            (("bounce_angle_in_deg", "bounce_angle_out_deg"), None, "{:.1f}"),
+            (("bounce_spin_in_rpm", "bounce_spin_out_rpm"), None, "{:+.0f}"),
+            ("bounce_regime", None, "{}"),
+            ("bounce_apex_m", None, "{:.2f}"),
+            ("receiver_height_m", None, "{:.2f}"),
+            ("bounce_t_s", None, "{:.2f}"),
+            ("receiver_t_s", None, "{:.2f}"),
+        ),
+    ),
 )
+
+
+def _name_and_unit(key):
+    """Row name and SI unit of a metric or a ``swing:`` field."""
+    if key.startswith("swing:"):
+        field = key[6:]
+        return field.replace("_", " "), _SWING_UNITS[field]
+    m = metric(key)
+    return m.row, m.unit
+
+
+def row_label(key, unit=None):
+    """The row name of a metric (or an (in, out) pair of metrics, "speed in/out") with the
+    unit it is shown in, e.g. ``ball speed [km/h]``."""
+    if isinstance(key, tuple):
+        (first, own), (second, _) = (_name_and_unit(k) for k in key)
+        stem, end = first.rsplit(" ", 1)
+        name = f"{stem} {end}/{second.rsplit(' ', 1)[1]}"
+    else:
+        name, own = _name_and_unit(key)
+    shown = unit or own
+    return name if shown in _NO_UNIT else f"{name} [{shown}]"
+
+
+def _scale(key, unit):
+    """The factor (or "deg") from a row's metric unit to ``unit``; None for labels and flags."""
+    own = _name_and_unit(key[0] if isinstance(key, tuple) else key)[1]
+    if own in ("text", "yes/no"):
+        return None
+    return 1.0 if unit is None or unit == own else _CONVERT[own, unit]
 
 
 def _value(result, key, i):
@@ -67,6 +124,7 @@ def _format(value, scale, fmt):
 
 
 def cell(result, key, i, scale, fmt):
+    """One cell: shot ``i``'s value of ``key`` (a pair: "in/out"), scaled and formatted."""
     if isinstance(key, tuple):
         return "/".join(_format(_value(result, k, i), scale, fmt) for k in key)
     if key.startswith("swing:") and result.swing is None:
@@ -79,11 +137,13 @@ def comparison_table(result, title=None):
     n = len(result)
     header = ["", *[str(label) for label in result.labels]]
     body = []
-    for label, key, scale, fmt in ROWS:
-        if key is None:
-            body.append([label.upper()] + [""] * n)
-            continue
-        body.append([label] + [cell(result, key, i, scale, fmt) for i in range(n)])
+    for heading, rows in SECTIONS:
+        body.append([heading.upper()] + [""] * n)
+        for key, unit, fmt in rows:
+            scale = _scale(key, unit)
+            body.append(
+                [row_label(key, unit)] + [cell(result, key, i, scale, fmt) for i in range(n)]
+            )
     widths = [max(len(row[c]) for row in [header, *body]) for c in range(n + 1)]
     lines = [title] if title else []
     lines.append(
