@@ -15,8 +15,16 @@ from .racket import (
     racket_inverse_masses,
     tangential_inverse_mass,
 )
+from .strings import (
+    DEFAULT_STRING_TANGENTIAL_RESTITUTION,
+    STRING_RESTITUTION_REFERENCE_SPEED_MPS,
+    string_restitution,
+)
 
 __all__ = [
+    "DEFAULT_STRING_TANGENTIAL_RESTITUTION",
+    "STRING_RESTITUTION_REFERENCE_SPEED_MPS",
+    "string_restitution",
     "SWINGWEIGHT_AXIS_M",
     "ContactResult",
     "Racket",

@@ -112,6 +112,8 @@ SCHEMAS = {
         "twistweight_kgm2": Key(float, 0.0005, 0.004, required=False),
         "string_restitution": Key(float, 0.0, 1.0),
         "string_friction": Key(float, 0.0, 2.0),
+        "string_tangential_restitution": Key(float, 0.0, 1.0, required=False),
+        "string_restitution_slope_s_per_m": Key(float, -0.05, 0.05, required=False),
     },
     "air": {
         "name": Key(str),

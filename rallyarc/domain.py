@@ -19,6 +19,7 @@ from rallyarc.flight.air import air_density, isa_temperature_pressure
 from rallyarc.flight.forces import FlightParams
 from rallyarc.flight.integrate import apex, fly, ground_contact
 from rallyarc.impact.racket import Racket
+from rallyarc.impact.strings import DEFAULT_STRING_TANGENTIAL_RESTITUTION, string_restitution
 from rallyarc.units import KMH, RPM
 
 #: Drop height of the ITF rebound test, to the bottom of the ball [m] (ITF Rules, Appendix I).
@@ -49,13 +50,23 @@ class Ball:
 
 @dataclass(frozen=True)
 class RacketSetup:
-    """A strung racket: mass properties, and the string bed's restitution and friction."""
+    """A strung racket: mass properties; the string bed's normal restitution (at the reference
+    speed of :func:`rallyarc.impact.strings.string_restitution`, and its change per m/s of
+    normal impact speed), friction, and tangential restitution (spring-back)."""
 
     name: str
     racket: Racket
     string_restitution: float
     string_friction: float
     source: str = ""
+    string_tangential_restitution: float = DEFAULT_STRING_TANGENTIAL_RESTITUTION
+    string_restitution_slope_s_per_m: float = 0.0
+
+    def normal_restitution(self, normal_speed):
+        """String-bed normal restitution at a normal impact speed [m/s] (``(N,)`` array)."""
+        return string_restitution(
+            self.string_restitution, normal_speed, self.string_restitution_slope_s_per_m
+        )
 
 
 @dataclass(frozen=True)
@@ -116,6 +127,9 @@ class Conditions:
     surface_name: str = "custom"
     receiver_plane_m: float = 1.0
     singles: bool = True
+    #: Friction alone at the racket: the strings give no spring-back (tangential restitution
+    #: 0), so the outgoing spin is what friction makes by itself.
+    friction_only: bool = False
 
     def flight_params(self):
         return FlightParams(
@@ -138,6 +152,22 @@ class Conditions:
         scale = self.ball.restitution / self.reference_restitution
         surface = replace(self.surface, restitution=min(1.0, self.surface.restitution * scale))
         object.__setattr__(self, "ball_surface", surface)
+
+    @property
+    def string_tangential_restitution(self):
+        """Tangential restitution of the strings as played: the racket's, or 0 when
+        :attr:`friction_only`."""
+        return 0.0 if self.friction_only else self.racket.string_tangential_restitution
+
+    def string_contact(self, ball_velocity, face_velocity, face_normal):
+        """The string bed's contact coefficients for N impacts: normal restitution at each
+        ball's normal speed into the face, friction and tangential restitution, as the
+        ``e_n, mu, e_t`` arguments of :func:`rallyarc.impact.contact.hit`."""
+        v_rel = np.atleast_2d(ball_velocity) - np.atleast_2d(face_velocity)
+        normal_speed = np.einsum("ij,ij->i", v_rel, np.broadcast_to(face_normal, v_rel.shape))
+        racket = self.racket
+        e_n = racket.normal_restitution(normal_speed)
+        return e_n, racket.string_friction, self.string_tangential_restitution
 
     def surface_for_ball(self):
         """The surface as this ball meets it: the surface's restitution (measured with the
@@ -195,7 +225,13 @@ def load_racket(name):
         length_m=data["length_m"],
     )
     return RacketSetup(
-        str(name), racket, data["string_restitution"], data["string_friction"], data["source"]
+        str(name),
+        racket,
+        data["string_restitution"],
+        data["string_friction"],
+        data["source"],
+        data.get("string_tangential_restitution", DEFAULT_STRING_TANGENTIAL_RESTITUTION),
+        data.get("string_restitution_slope_s_per_m", 0.0),
     )
 
 

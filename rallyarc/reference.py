@@ -159,6 +159,7 @@ def _impact_one(velocity, spin, swing, conditions):
     sw = {k: np.atleast_1d(float(v)) for k, v in swing.items()}
     normal, axis = face_orientation(sw["face_tilt"], sw["face_azimuth"], sw["racket_roll"])
     face_v = swing_velocity(sw["head_speed"], sw["swing_path"], sw["swing_direction"])
+    e_n, mu, e_t = conditions.string_contact(np.asarray(velocity, float)[None], face_v, normal)
     contact = hit(
         np.asarray(velocity, float)[None],
         np.asarray(spin, float)[None],
@@ -171,8 +172,9 @@ def _impact_one(velocity, spin, swing, conditions):
         ball.mass,
         ball.radius,
         ball.alpha,
-        racket.string_restitution,
-        racket.string_friction,
+        e_n,
+        mu,
+        e_t,
     )
     return contact.velocity[0], contact.spin[0], bool(contact.approaching[0])
 

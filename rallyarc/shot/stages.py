@@ -52,7 +52,9 @@ def launch_metrics(velocity, spin):
 
 
 def impact(incoming, swing, conditions):
-    """The racket meets the ball: :func:`rallyarc.impact.contact.hit` for N swings.
+    """The racket meets the ball: :func:`rallyarc.impact.contact.hit` for N swings, with the
+    string bed's restitution at each ball's normal speed and its spring-back (none when
+    ``conditions.friction_only``).
 
     Returns the contact result (outgoing velocity and spin, regime, whether the racket met the
     ball at all) and the impact metrics.
@@ -60,6 +62,7 @@ def impact(incoming, swing, conditions):
     ball, racket = conditions.ball, conditions.racket
     normal, axis = face_orientation(swing.face_tilt, swing.face_azimuth, swing.racket_roll)
     face_v = swing_velocity(swing.head_speed, swing.swing_path, swing.swing_direction)
+    e_n, mu, e_t = conditions.string_contact(incoming.velocity, face_v, normal)
     contact = hit(
         incoming.velocity,
         incoming.spin,
@@ -72,8 +75,9 @@ def impact(incoming, swing, conditions):
         ball.mass,
         ball.radius,
         ball.alpha,
-        racket.string_restitution,
-        racket.string_friction,
+        e_n,
+        mu,
+        e_t,
     )
     m = launch_metrics(contact.velocity, contact.spin)
     m["impact_regime"] = contact.regime

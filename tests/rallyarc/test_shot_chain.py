@@ -1,5 +1,6 @@
 """The whole shot against independent references, physical sanity, presets and the batch API."""
 
+import dataclasses
 import math
 
 import numpy as np
@@ -324,3 +325,33 @@ def test_a_ball_stopped_by_the_net_has_no_landing():
     assert m["flight_ground_x_m"][0] > 0
     t, pos, _ = res.path(0, dt=0.005)
     assert pos[:, 0].max() <= 1e-6  # the drawn path ends at the net
+
+
+def test_friction_only_mode_removes_the_strings_spring_back():
+    # Cross (2003, Sports Eng. 6:235): after gripping, the bottom of the ball slides backward on
+    # the strings as the grip releases, so the ball leaves spinning faster than friction alone
+    # makes it. Friction-only mode (tangential restitution 0) keeps the friction model, so every
+    # gripping topspin stroke leaves with less topspin in it; the spin-limit report stays.
+    sc, incoming = demo()
+    with_spring = play(sc.strokes, sc.conditions, incoming, record=False).metrics
+    alone = dataclasses.replace(sc.conditions, friction_only=True)
+    assert alone.string_tangential_restitution == 0.0
+    assert sc.conditions.string_tangential_restitution == pytest.approx(0.15)
+    friction = play(sc.strokes, alone, incoming, record=False).metrics
+    names = [s.name for s in sc.strokes]
+    for name in ("topspin_drive", "heavy_topspin", "lob"):
+        i = names.index(name)
+        assert with_spring["impact_topspin_rpm"][i] > friction["impact_topspin_rpm"][i] + 100.0
+    assert friction["impact_spin_limit_reached"].dtype == bool
+    np.testing.assert_array_equal(
+        friction["impact_spin_limit_reached"], with_spring["impact_spin_limit_reached"]
+    )
+
+
+def test_racket_presets_give_the_string_bed_keys():
+    for name in config.preset_names("rackets"):
+        setup = domain.load_racket(name)
+        assert 0.0 <= setup.string_tangential_restitution <= 1.0
+        assert "Cross (2005" in setup.source
+        e = setup.normal_restitution(np.array([10.0, 30.0, 50.0]))
+        assert np.all((e >= 0.0) & (e <= 1.0))
