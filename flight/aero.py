@@ -29,12 +29,19 @@ class StepanekAero:
 
     References
     ----------
+    Range of validity: fitted to wind-tunnel data over spin parameters of about 0.05 to 1 (from
+    memory); free-flight drag is 15-20 % lower (Cross and Lindsey 2014), so this model flies a
+    ball shorter than measured on court.
+
     Stepanek, A. (1988), The aerodynamics of tennis balls - the topspin lob,
     Am. J. Phys. 56:138-142 (DOI 10.1119/1.15692, from memory).
     """
 
     name: str = "stepanek1988"
     drag_constant: float = 22.053
+    #: Where the model comes from and where it holds.
+    source: str = "Stepanek (1988), Am. J. Phys. 56:138, wind-tunnel fits for spinning balls"
+    validity: str = "wind tunnel; spin parameter about 0.05-1 (from memory); C_D 0.54-0.78 there"
 
     def drag(self, spin_parameter):
         """Drag coefficient ``C_D(S)`` [-]."""
@@ -59,6 +66,10 @@ class CrossLindseyAero:
     constant drag with Stepanek's lift curve ``C_L = S / (2.022 S + 0.981)``, which runs through
     that band (the pairing is this project's choice, common practice for a lift model).
 
+    Range of validity: new balls in free flight at 15-30 m/s with topspin or backspin up to
+    2500 rpm (spin parameter up to about 0.6 at 15 m/s, 0.3 at 30 m/s). Faster serves and
+    heavier spin are extrapolations. This is the default model of the ball presets.
+
     References
     ----------
     Cross, R. and Lindsey, C. (2014), Measurements of drag and lift on tennis balls in flight,
@@ -67,6 +78,12 @@ class CrossLindseyAero:
 
     name: str = "cross_lindsey2014"
     drag_coefficient: float = 0.507
+    #: Where the model comes from and where it holds.
+    source: str = (
+        "Cross and Lindsey (2014), Sports Eng. 17:89, free flight: C_D 0.507 +- 0.024; "
+        "lift curve of Stepanek (1988)"
+    )
+    validity: str = "free flight of new balls, 15-30 m/s, spin up to 2500 rpm (S up to about 0.6)"
 
     def drag(self, spin_parameter):
         """Drag coefficient, constant [-]."""
@@ -93,6 +110,8 @@ class ConstantAero:
     drag_coefficient: float = 0.55
     lift_coefficient: float = 0.0
     name: str = "constant"
+    source: str = "user-given constant coefficients"
+    validity: str = "wherever the given coefficients were measured"
 
     def __post_init__(self):
         for field, value in (

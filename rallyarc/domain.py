@@ -16,7 +16,7 @@ from rallyarc import config, kinematics
 from rallyarc.bounce.contact import Surface
 from rallyarc.flight.aero import get_aero_model
 from rallyarc.flight.air import air_density, isa_temperature_pressure
-from rallyarc.flight.forces import FlightParams
+from rallyarc.flight.forces import FlightParams, spin_decay_rate
 from rallyarc.flight.integrate import apex, fly, ground_contact
 from rallyarc.impact.racket import Racket
 from rallyarc.impact.strings import DEFAULT_STRING_TANGENTIAL_RESTITUTION, string_restitution
@@ -132,11 +132,16 @@ class Conditions:
     friction_only: bool = False
 
     def flight_params(self):
+        """Flight parameters of this ball in this air, with the spin decay of
+        :func:`rallyarc.flight.forces.spin_decay_rate` (aerodynamic torque)."""
+        ball = self.ball
+        decay = spin_decay_rate(self.air.density, ball.radius, ball.mass, ball.alpha, ball.aero)
         return FlightParams(
-            mass=self.ball.mass,
-            radius=self.ball.radius,
+            mass=ball.mass,
+            radius=ball.radius,
             air_density=self.air.density,
-            aero=self.ball.aero,
+            aero=ball.aero,
+            spin_decay_rate=decay,
             wind=self.air.wind,
         )
 

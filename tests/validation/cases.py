@@ -1,0 +1,185 @@
+"""The validation cases: each compares one model quantity with one published measurement.
+
+A case names its source (paper, table or figure), the published value, the tolerance (as wide as
+the measurement's own scatter) and computes the model's value. ``holds`` is known in advance:
+a case that does not hold is a documented gap of the model, tested as a strict expected
+failure so that the table must be regenerated when the model changes.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from rallyarc import domain
+from rallyarc.bounce.pace import court_pace_rating
+from rallyarc.impact.contact import collide, hit
+
+
+@dataclass(frozen=True)
+class Case:
+    key: str
+    quantity: str
+    source: str
+    published: float
+    low: float
+    high: float
+    unit: str
+    model: object  # callable returning the model's value
+    holds: bool = True
+
+    def value(self):
+        return float(self.model())
+
+    def within(self, value):
+        return self.low <= value <= self.high
+
+
+def _drag_coefficient():
+    ball = domain.load_ball("itf_type2")
+    return ball.aero.drag(np.array([0.0, 0.1, 0.3, 0.6])).max()
+
+
+def _drag_spread():
+    ball = domain.load_ball("itf_type2")
+    cd = ball.aero.drag(np.linspace(0.0, 0.6, 61))
+    return cd.max() - cd.min()
+
+
+def _strings(theta_deg, racket, speed=23.0):
+    """A ball without spin arriving at ``theta_deg`` to the string plane of the standard racket,
+    head-clamped (``racket`` False) or free (hand-held)."""
+    setup = domain.load_racket("standard")
+    ball = domain.load_ball("itf_type2")
+    th = math.radians(theta_deg)
+    n, a = np.array([0.0, 0.0, 1.0]), np.array([1.0, 0.0, 0.0])
+    v = np.array([speed * math.cos(th), 0.0, -speed * math.sin(th)])
+    args = (ball.mass, ball.radius, ball.alpha)
+    coeffs = (setup.string_restitution, setup.string_friction, setup.string_tangential_restitution)
+    if racket:
+        return hit(v, np.zeros(3), np.zeros(3), n, a, setup.racket, 0.52, 0.0, *args, *coeffs)
+    return collide(v, np.zeros(3), np.zeros(3), n, a, *args, 0.0, np.zeros((2, 2)), *coeffs)
+
+
+def _grip_angle(racket):
+    angles = np.linspace(5.0, 89.0, 841)
+    grips = np.array([bool(_strings(t, racket).grip[0]) for t in angles])
+    return angles[np.argmax(grips)]
+
+
+def _hand_held_spin_ratio():
+    clamped = np.linalg.norm(_strings(50.0, False).spin[0])
+    held = np.linalg.norm(_strings(50.0, True).spin[0])
+    return held / clamped
+
+
+def _forehand_speed_at_measured_head_speed():
+    """The demo topspin drive swung at the professionals' mean racket speed, against the
+    20 m/s machine ball of the same study."""
+    sc = domain.load_scenario("demo")
+    stroke = domain.load_stroke("topspin_drive")
+    stroke = replace(stroke, head_speed=33.1)
+    from rallyarc.shot import BallState, play
+
+    pos, vel, spin = domain.incoming_state(sc.incoming)
+    vel = vel * (20.0 / np.linalg.norm(vel[:2]))
+    m = play([stroke], sc.conditions, BallState.of(pos, vel, spin), record=False).metrics
+    return m["impact_speed_mps"][0] * 3.6
+
+
+def _drop_rebound():
+    return domain.drop_test_rebound(domain.load_ball("itf_type2"))[0] * 100.0
+
+
+CASES = (
+    Case(
+        "drag_free_flight",
+        "drag coefficient in free flight, largest over S 0-0.6",
+        "Cross & Lindsey (2014), Sports Eng. 17:89, abstract: C_D 0.507 +- 0.024",
+        0.507,
+        0.507 - 0.024,
+        0.507 + 0.024,
+        "-",
+        _drag_coefficient,
+    ),
+    Case(
+        "drag_independent_of_spin",
+        "spread of C_D over S 0-0.6",
+        "Cross & Lindsey (2014), Sports Eng. 17:89: C_D independent of speed and spin "
+        "(scatter +- 0.024)",
+        0.0,
+        0.0,
+        0.048,
+        "-",
+        _drag_spread,
+    ),
+    Case(
+        "slide_grip_clamped",
+        "slide-or-grip angle to the string plane, head-clamped, no spin, 23 m/s",
+        "Cross (2003), Sports Eng. 6:235, abstract: slides throughout below about 40 deg",
+        40.0,
+        35.0,
+        45.0,
+        "deg",
+        lambda: _grip_angle(False),
+        holds=False,
+    ),
+    Case(
+        "slide_grip_hand_held",
+        "slide-or-grip angle to the string plane, free racket, no spin, 23 m/s",
+        "Cross (2003), Sports Eng. 6:235, abstract: slides throughout below about 40 deg",
+        40.0,
+        35.0,
+        45.0,
+        "deg",
+        lambda: _grip_angle(True),
+        holds=False,
+    ),
+    Case(
+        "spin_hand_held_vs_clamped",
+        "spin off a free racket / off a head-clamped one, 23 m/s at 40 deg from the normal",
+        "Cross & Lindsey, 'Which strings generate the most spin?' (2011): about 30 % less "
+        "when hand-held (incoming backspin; here none)",
+        0.70,
+        0.60,
+        0.80,
+        "-",
+        _hand_held_spin_ratio,
+        holds=False,
+    ),
+    Case(
+        "forehand_ball_speed",
+        "ball speed of the topspin drive swung at 33.1 m/s against a 20 m/s ball",
+        "Landlinger et al. (2010), J. Sports Sci. Med. 9:643: racket 33.1 +- 2.4 m/s "
+        "(professionals); ball speed ~ rally 110.1 +- 10.2 km/h (men), Bower & Cross (2005), "
+        "J. Sports Sci.; elite men 117 km/h (Sports Eng. 11:31, 2008)",
+        117.0,
+        107.0,
+        127.0,
+        "km/h",
+        _forehand_speed_at_measured_head_speed,
+        holds=False,
+    ),
+    Case(
+        "itf_drop_test",
+        "rebound of the type 2 ball from 254 cm (simulated with drag)",
+        "ITF Rules of Tennis, Appendix I: 135-147 cm",
+        141.0,
+        135.0,
+        147.0,
+        "cm",
+        _drop_rebound,
+    ),
+    Case(
+        "pace_rating_worked",
+        "court pace rating for mu 0.6, e 0.80 at 23 C",
+        "ITF CS 01/02 worked value: CPR 41.5",
+        41.5,
+        41.5 - 1e-9,
+        41.5 + 1e-9,
+        "-",
+        lambda: court_pace_rating(0.6, 0.80, 23.0),
+    ),
+)
