@@ -36,6 +36,23 @@ COMPARE_OUTPUTS = (
 )
 
 
+FRICTION_ONLY = click.option(
+    "--friction-only",
+    is_flag=True,
+    help="Friction alone at the racket: no spring-back of the strings (tangential restitution "
+    "0), to see how much of the spin friction makes by itself.",
+)
+
+
+def _played_conditions(sc, friction_only):
+    """The scenario's conditions, in friction-only mode when asked."""
+    import dataclasses
+
+    if not friction_only:
+        return sc.conditions
+    return dataclasses.replace(sc.conditions, friction_only=True)
+
+
 @click.command()
 @click.option(
     "--stroke", default="topspin_drive", show_default=True, help="Stroke preset or TOML file."
@@ -51,6 +68,7 @@ COMPARE_OUTPUTS = (
 @click.option("--incoming-speed", default=None, help="Override: incoming ball speed.")
 @click.option("--incoming-spin", default=None, help="Override: incoming topspin [rpm].")
 @condition_options
+@FRICTION_ONLY
 @json_option()
 @click.option(
     "--csv", "csv_path", default=None, help="Write the trajectory table to this CSV file."
@@ -58,8 +76,8 @@ COMPARE_OUTPUTS = (
 @dt_option
 @force_option("Overwrite existing output files.")
 def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, contact,
-         incoming_speed, incoming_spin, ball, racket, air, surface_name, receiver_plane, as_json,
-         csv_path, dt, force):  # fmt: skip
+         incoming_speed, incoming_spin, ball, racket, air, surface_name, receiver_plane,
+         friction_only, as_json, csv_path, dt, force):  # fmt: skip
     """One stroke against the scenario's incoming ball (or a serve against its toss):
     impact, net, landing, bounce and the ball at the receiver."""
     from rallyarc import domain
@@ -74,7 +92,7 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
     st, incoming = _incoming(sc, st, contact, incoming_speed, incoming_spin)
     if incoming is None and st.toss.contact[2] < sc.conditions.ball.radius:
         raise InputError("--contact: the contact height Z must be above the ball's radius")
-    result = play([st], sc.conditions, incoming)
+    result = play([st], _played_conditions(sc, friction_only), incoming)
     if csv_path is not None:
         export.write_frame(csv_path, result.trajectory_frame(step))
     c = sc.conditions
@@ -132,13 +150,15 @@ def _incoming(sc, st, contact, incoming_speed, incoming_spin):
 @click.command()
 @click.argument("scenario", default="demo")
 @condition_options
+@FRICTION_ONLY
 @click.option(
     "--out", "out_dir", default=None, help="Write the table, trajectories and figures here."
 )
 @dt_option
 @force_option("Overwrite existing files in --out.")
 @json_option("Print the shots as a JSON list.")
-def compare(scenario, ball, racket, air, surface_name, receiver_plane, out_dir, dt, force, as_json):
+def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_only, out_dir, dt,
+            force, as_json):  # fmt: skip
     """Every stroke variant of a scenario side by side (default: the demo scenario)."""
     from rallyarc.output.tables import comparison_table
     from rallyarc.shot import play
@@ -146,7 +166,7 @@ def compare(scenario, ball, racket, air, surface_name, receiver_plane, out_dir, 
     sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
     step = time_step(dt)
     folder = output_folder(out_dir, COMPARE_OUTPUTS, force)
-    result = play(sc.strokes, sc.conditions, incoming_ball(sc))
+    result = play(sc.strokes, _played_conditions(sc, friction_only), incoming_ball(sc))
     records = [result.record(i) for i in range(len(result))]
     c = sc.conditions
     title = (

@@ -364,3 +364,21 @@ def test_racket_presets_give_the_string_bed_keys():
         assert "Cross (2005" in setup.source
         e = setup.normal_restitution(np.array([10.0, 30.0, 50.0]))
         assert np.all((e >= 0.0) & (e <= 1.0))
+
+
+def test_cli_friction_only_option_on_shot_and_compare():
+    import json
+
+    from click.testing import CliRunner
+
+    from rallyarc.cli import main
+
+    runner = CliRunner()
+    spins = []
+    for extra in ([], ["--friction-only"]):
+        out = runner.invoke(main, ["shot", "--json", *extra])
+        assert out.exit_code == 0, out.output
+        spins.append(json.loads(out.output)["impact"]["topspin_rpm"])
+    assert spins[0] > spins[1] + 100.0
+    out = runner.invoke(main, ["compare", "serve_demo", "--friction-only", "--json"])
+    assert out.exit_code == 0, out.output
