@@ -27,7 +27,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from rallyarc import kinematics
-from rallyarc.shot import BallState, ShotResult, launch, play
+from rallyarc.shot import BallState, launch, play
 from rallyarc.units import KMH, RPM
 
 DEG = math.pi / 180.0
@@ -77,7 +77,9 @@ PARAMETERS = {
 }
 
 
-def _parameter(name):
+def get_parameter(name):
+    """The sweepable :class:`Parameter` named ``name``; a ``ValueError`` listing the valid
+    names otherwise."""
     try:
         return PARAMETERS[name]
     except KeyError:
@@ -107,7 +109,7 @@ class Launch:
 
         Spin about the ball's direction of travel, if any, is not kept.
         """
-        r = play([stroke], conditions, _incoming_for(stroke, incoming), record=False)
+        r = play([stroke], conditions, incoming_for(stroke, incoming), record=False)
         m = r.metrics
         return cls(
             position=tuple(float(v) for v in r.incoming.position[0]),
@@ -145,7 +147,7 @@ class Launch:
         return values[parameter]
 
 
-def _incoming_for(stroke, incoming):
+def incoming_for(stroke, incoming):
     if stroke.kind == "serve":
         return None
     if incoming is None:
@@ -153,7 +155,7 @@ def _incoming_for(stroke, incoming):
     return incoming
 
 
-_LAUNCH_KEYS = {"launch_speed": "speed", "launch_angle": "angle", "launch_spin": "topspin"}
+LAUNCH_KEYS = {"launch_speed": "speed", "launch_angle": "angle", "launch_spin": "topspin"}
 
 
 def _vary_incoming(incoming, parameter, values):
@@ -201,9 +203,9 @@ def sweep(stroke, conditions, incoming, parameter, values, record=True):
     rallyarc.shot.ShotResult
         N shots, all labelled with the stroke's name, in the order of ``values``.
     """
-    p = _parameter(parameter)
+    p = get_parameter(parameter)
     values = np.atleast_1d(np.asarray(values, float))
-    incoming = _incoming_for(stroke, incoming)
+    incoming = incoming_for(stroke, incoming)
     if p.family == "swing":
         return play([stroke], conditions, incoming, record=record, **{parameter: values})
     if p.family == "incoming":
@@ -213,164 +215,12 @@ def sweep(stroke, conditions, incoming, parameter, values, record=True):
         full = np.full(values.size, stroke.head_speed)
         return play([stroke], conditions, state, record=record, head_speed=full)
     spec = Launch.from_stroke(stroke, conditions, incoming)
-    return _fly(spec, conditions, record, **{_LAUNCH_KEYS[parameter]: values})
+    return fly_launch(spec, conditions, record, **{LAUNCH_KEYS[parameter]: values})
 
 
-def _fly(spec, conditions, record, **values):
+def fly_launch(spec, conditions, record, **values):
     states = spec.states(**values)
     return launch(states, conditions, labels=spec.name, serve=spec.serve, record=record)
-
-
-@dataclass
-class Window:
-    """A success window: the outcome and margins of a grid of shots over two parameters.
-
-    Arrays are ``(ny, nx)``: rows follow ``y_values``, columns ``x_values`` (SI).
-    ``depth_m`` and ``side_margin_m`` are measured to the baseline and the sideline, or for a
-    serve to the service line and the box's lines; positive inside. ``nominal`` is the
-    stroke's (or the launch's) own value of each parameter, and ``nominal_margins`` the
-    outcome, net clearance, depth and side margin of that shot. ``result`` holds the grid's
-    shots row by row and then the nominal shot.
-    """
-
-    x_param: str
-    y_param: str
-    x_values: np.ndarray
-    y_values: np.ndarray
-    outcome: np.ndarray
-    net_clearance_m: np.ndarray
-    depth_m: np.ndarray
-    side_margin_m: np.ndarray
-    nominal: tuple
-    label: str
-    serve: bool
-    result: ShotResult
-    nominal_margins: dict
-
-    def room(self):
-        """How far each parameter can move from the nominal setting, the other held, before
-        the shot leaves the window; and what it does beyond that edge.
-
-        Measured along the grid row and column nearest the nominal setting, with each edge
-        half-way between the last cell in and the first cell out (so to within half a grid
-        step). Returns ``{param: (below, above)}``, each ``(distance [SI], outcome beyond)``
-        or ``(None, None)`` where the window reaches the grid's end; an empty dict when the
-        nominal setting's cell is not in.
-        """
-        i = int(np.argmin(np.abs(self.x_values - self.nominal[0])))
-        j = int(np.argmin(np.abs(self.y_values - self.nominal[1])))
-        if self.outcome[j, i] != "in":
-            return {}
-        return {
-            self.x_param: _edges(self.x_values, self.outcome[j, :], i, self.nominal[0]),
-            self.y_param: _edges(self.y_values, self.outcome[:, i], j, self.nominal[1]),
-        }
-
-    @property
-    def shape(self):
-        return self.outcome.shape
-
-    def edge_margin(self):
-        """The smallest of the three margins of each cell [m] (NaN where no landing)."""
-        return np.fmin(np.fmin(self.net_clearance_m, self.depth_m), self.side_margin_m)
-
-    def fraction_in(self):
-        return float(np.mean(self.outcome == "in"))
-
-
-def _edges(values, outcomes, k, nominal):
-    out = []
-    for step in (-1, 1):
-        m = k
-        while 0 <= m + step < len(values) and outcomes[m + step] == "in":
-            m += step
-        if not 0 <= m + step < len(values):
-            out.append((None, None))
-            continue
-        edge = 0.5 * (values[m] + values[m + step])
-        out.append((float(abs(edge - nominal)), str(outcomes[m + step])))
-    return tuple(out)
-
-
-def window(spec, conditions, incoming, x_param, x_values, y_param, y_values):
-    """Outcome and margins over a grid of two parameters, in one vectorized call.
-
-    Parameters
-    ----------
-    spec : rallyarc.domain.Stroke or Launch
-        A stroke, or a launch; a stroke's launch is found by one play for launch parameters.
-    conditions : rallyarc.domain.Conditions
-    incoming : rallyarc.shot.BallState or None
-        The incoming ball for a groundstroke; None for a serve or a launch.
-    x_param, y_param : str
-        Two parameters of the same family: ``swing`` (``head_speed``, ``face_tilt``,
-        ``swing_path``) or ``launch`` (``launch_speed``, ``launch_angle``, ``launch_spin``).
-    x_values, y_values : array
-        Grid values, SI.
-
-    Returns
-    -------
-    Window
-    """
-    px, py = _parameter(x_param), _parameter(y_param)
-    if x_param == y_param:
-        raise ValueError("the two window parameters must differ")
-    if px.family != py.family or px.family == "incoming":
-        raise ValueError(
-            "a window varies two swing parameters (head_speed, face_tilt, swing_path) or two "
-            "launch parameters (launch_speed, launch_angle, launch_spin)"
-        )
-    xs = np.atleast_1d(np.asarray(x_values, float))
-    ys = np.atleast_1d(np.asarray(y_values, float))
-    gx, gy = np.meshgrid(xs, ys)
-    if px.family == "swing":
-        if isinstance(spec, Launch):
-            raise ValueError("swing parameters need a stroke, not a launch")
-        nominal = (getattr(spec, x_param), getattr(spec, y_param))
-        result = play(
-            [spec],
-            conditions,
-            _incoming_for(spec, incoming),
-            record=False,
-            **{x_param: np.append(gx, nominal[0]), y_param: np.append(gy, nominal[1])},
-        )
-        label, serve = spec.name, spec.kind == "serve"
-    else:
-        if not isinstance(spec, Launch):
-            spec = Launch.from_stroke(spec, conditions, incoming)
-        nominal = (spec.value(x_param), spec.value(y_param))
-        keys = {
-            _LAUNCH_KEYS[x_param]: np.append(gx, nominal[0]),
-            _LAUNCH_KEYS[y_param]: np.append(gy, nominal[1]),
-        }
-        result = _fly(spec, conditions, False, **keys)
-        label, serve = spec.name, spec.serve
-    m = result.metrics
-    depth = np.asarray(m["land_box_depth_m"] if serve else m["land_depth_m"], float)
-    side = np.asarray(m["land_box_side_margin_m"] if serve else m["land_side_margin_m"], float)
-    clearance = np.asarray(m["net_clearance_m"], float)
-    outcome = np.asarray(m["outcome"])
-    shape = gx.shape
-    return Window(
-        x_param=x_param,
-        y_param=y_param,
-        x_values=xs,
-        y_values=ys,
-        outcome=outcome[:-1].reshape(shape),
-        net_clearance_m=clearance[:-1].reshape(shape),
-        depth_m=depth[:-1].reshape(shape),
-        side_margin_m=side[:-1].reshape(shape),
-        nominal=(float(nominal[0]), float(nominal[1])),
-        label=label,
-        serve=serve,
-        result=result,
-        nominal_margins={
-            "outcome": str(outcome[-1]),
-            "net_clearance_m": float(clearance[-1]),
-            "depth_m": float(depth[-1]),
-            "side_margin_m": float(side[-1]),
-        },
-    )
 
 
 def dispersion(
@@ -418,6 +268,72 @@ _SCATTERED = ("head_speed", "face_tilt", "face_azimuth", "swing_path")
 
 def with_value(stroke, parameter, value):
     """The stroke with one swing field set (SI): the single-shot counterpart of a sweep."""
-    if _parameter(parameter).family != "swing":
+    if get_parameter(parameter).family != "swing":
         raise ValueError(f"{parameter} is not a swing parameter")
     return replace(stroke, **{parameter: float(value)})
+
+
+#: Swing fields that :func:`with_swing` may replace (SI: m/s, rad).
+SWING_FIELDS = ("head_speed", "swing_path", "face_tilt", "swing_direction")
+
+
+def with_swing(stroke, **changes):
+    """The stroke with some of its swing values replaced (SI: head speed [m/s], angles [rad]).
+
+    A new ``swing_direction`` turns the face with the swing: the face azimuth keeps its offset
+    from the swing direction, as in aiming. The other values are set as given.
+
+    Parameters
+    ----------
+    stroke : rallyarc.domain.Stroke
+    **changes : float
+        Any of ``head_speed``, ``swing_path``, ``face_tilt``, ``swing_direction``.
+
+    Returns
+    -------
+    rallyarc.domain.Stroke
+    """
+    unknown = [k for k in changes if k not in SWING_FIELDS]
+    if unknown:
+        raise ValueError(
+            f"unknown swing field {unknown[0]!r}; choose from {', '.join(SWING_FIELDS)}"
+        )
+    if "swing_direction" in changes:
+        changes["face_azimuth"] = (
+            stroke.face_azimuth - stroke.swing_direction + changes["swing_direction"]
+        )
+    return replace(stroke, **changes)
+
+
+def own_value(stroke, parameter, conditions, incoming=None):
+    """The stroke's own value of a sweepable parameter, SI.
+
+    Swing parameters are the stroke's fields; ``incoming_speed`` and ``incoming_spin`` the
+    incoming ball's speed and its topspin about its horizontal travel; launch parameters those
+    of the ball leaving the racket (one play through the impact).
+
+    Parameters
+    ----------
+    stroke : rallyarc.domain.Stroke
+    parameter : str
+        A key of :data:`rallyarc.sweep.PARAMETERS`.
+    conditions : rallyarc.domain.Conditions
+    incoming : rallyarc.shot.BallState or None
+        The incoming ball; None for a serve.
+
+    Returns
+    -------
+    float or numpy.float64
+    """
+    p = get_parameter(parameter)
+    if p.family == "swing":
+        return getattr(stroke, p.name)
+    if p.family == "incoming":
+        if incoming is None:
+            raise ValueError(f"{p.name} needs a groundstroke; a serve has no incoming ball")
+        vel, spin = incoming.velocity[0], incoming.spin[0]
+        if p.name == "incoming_speed":
+            return np.linalg.norm(vel)
+        h = vel[:2] / max(np.linalg.norm(vel[:2]), 1e-12)
+        return spin @ np.array([-h[1], h[0], 0.0])
+    return Launch.from_stroke(stroke, conditions, incoming).value(p.name)

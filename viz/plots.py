@@ -1,7 +1,7 @@
 """2D figures of shots in one import: side view, top view, sweeps and success windows (matplotlib).
 
 Every function takes results (a :class:`rallyarc.shot.ShotResult` or a
-:class:`rallyarc.sweep.Window`), draws them and returns the matplotlib Figure. Nothing here
+:class:`rallyarc.window.Window`), draws them and returns the matplotlib Figure. Nothing here
 computes physics: paths are the recorded trajectories sampled, numbers are the metrics of the
 result. Figures are made without pyplot (no global figure list, no backend chosen or switched,
 no display needed); in a notebook they show as usual, and :func:`save_figure` writes them to a

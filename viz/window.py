@@ -1,6 +1,6 @@
 """A success window's figure: the outcome over a grid of two parameters, margin contours inside
 the window and the stroke's own setting with its room to each edge (matplotlib). The grid is
-:func:`rallyarc.sweep.window`'s; nothing here runs the shots."""
+:func:`rallyarc.window.window`'s; nothing here runs the shots."""
 
 from __future__ import annotations
 
@@ -27,7 +27,7 @@ def window_plot(window_result, ax=None):
 
     Parameters
     ----------
-    window_result : rallyarc.sweep.Window
+    window_result : rallyarc.window.Window
 
     Returns
     -------

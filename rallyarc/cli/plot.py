@@ -86,7 +86,7 @@ def _parameter(name, option):
 
 def _nominal(stroke, parameter, sc, incoming):
     """The stroke's own value of a parameter, in display units."""
-    from rallyarc.variation import own_value
+    from rallyarc.sweep import own_value
 
     p = parameter
     if p.family == "incoming" and incoming is None:
@@ -214,10 +214,10 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
     margins to each edge, for one stroke of SCENARIO."""
     import numpy as np
 
-    from rallyarc import sweep
+    from rallyarc import window
     from rallyarc.output import export
-    from rallyarc.variation import check_window_axes
     from rallyarc.viz import plots
+    from rallyarc.window import check_window_axes
 
     path = figure_path(out)
     export.check_targets([path], force)
@@ -238,7 +238,7 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
     )
     xlo, xhi = _range(x_range, "--x-range", px, _nominal(stroke, px, sc, incoming))
     ylo, yhi = _range(y_range, "--y-range", py, _nominal(stroke, py, sc, incoming))
-    w = sweep.window(
+    w = window.window(
         stroke,
         sc.conditions,
         incoming,

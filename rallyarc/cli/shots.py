@@ -106,7 +106,7 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
 
 def _swing(stroke, head_speed, swing_path, face_tilt, swing_direction):
     """The stroke with the swing overrides of the options."""
-    from rallyarc.variation import with_swing
+    from rallyarc.sweep import with_swing
 
     changes = {}
     if head_speed is not None:

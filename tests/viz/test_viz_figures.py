@@ -9,7 +9,7 @@ import pytest
 from click.testing import CliRunner
 from PIL import Image
 
-from rallyarc import domain, sweep
+from rallyarc import domain, sweep, window
 from rallyarc.cli import main
 from rallyarc.shot import BallState, launch, play
 from rallyarc.viz import palette, plots, scene
@@ -151,7 +151,7 @@ def test_window_cells_match_separate_runs(demo, tmp_path):
     sc, incoming, _ = demo
     stroke = sc.strokes[1]
     xs, ys = np.radians(np.linspace(0, 8, 5)), np.radians(np.linspace(20, 40, 3))
-    w = sweep.window(stroke, sc.conditions, incoming, "face_tilt", xs, "swing_path", ys)
+    w = window.window(stroke, sc.conditions, incoming, "face_tilt", xs, "swing_path", ys)
     assert w.outcome.shape == (3, 5)
     for j, i in ((0, 0), (1, 2), (2, 4)):
         single = play([stroke], sc.conditions, incoming, face_tilt=[xs[i]], swing_path=[ys[j]])
@@ -168,7 +168,7 @@ def test_window_cells_match_separate_runs(demo, tmp_path):
 def test_window_room_is_the_distance_to_the_first_cell_out():
     xs = np.arange(5.0)
     outcomes = np.array(["net", "in", "in", "in", "long"])
-    assert sweep._edges(xs, outcomes, 2, 2.0) == ((1.5, "net"), (1.5, "long"))
+    assert window._edges(xs, outcomes, 2, 2.0) == ((1.5, "net"), (1.5, "long"))
 
 
 def test_palette_stays_apart_in_simulated_colour_vision_deficiencies():

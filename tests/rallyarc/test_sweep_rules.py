@@ -8,7 +8,8 @@ import pytest
 
 from rallyarc import domain, sweep
 from rallyarc.shot import BallState
-from rallyarc.variation import check_window_axes, own_value, with_swing
+from rallyarc.sweep import own_value, with_swing
+from rallyarc.window import check_window_axes
 
 
 def test_a_new_swing_direction_keeps_the_face_offset():
