@@ -93,7 +93,4 @@ def _write_drill(d, sheet, results, data, folder, step, speed_units):
         export.write_frame(folder / "trajectories.csv", table),
         export.write_frame(folder / "trajectories.parquet", table),
     ]
-    import matplotlib.pyplot as plt  # releases the figure if pyplot made it
-
-    plt.close(fig)
     return written
