@@ -9,6 +9,7 @@ from dataclasses import replace
 import numpy as np
 
 from rallyarc import kinematics, units
+from rallyarc.aim.first import launched
 from rallyarc.aim.solver import (
     HEIGHT_TOL_M,
     LAND_TOL_M,
@@ -33,7 +34,15 @@ def _feed_state(origin, speed, elevation, azimuth, topspin):
 
 
 def aim_feed(
-    machine, position, conditions, target_x, target_y, topspin_rpm, speed=None, player_height=None
+    machine,
+    position,
+    conditions,
+    target_x,
+    target_y,
+    topspin_rpm,
+    speed=None,
+    player_height=None,
+    method="newton",
 ):
     """Solve a ball machine's speed, elevation and azimuth for target balls.
 
@@ -51,6 +60,8 @@ def aim_feed(
     player_height : float or array (N,), optional
         Ball height at the player's contact plane [m] instead of a speed; then speed,
         elevation and azimuth are solved.
+    method : {"newton", "broyden"}
+        The solver's Jacobian rule (:func:`rallyarc.aim.solver.solve`).
 
     Returns
     -------
@@ -90,7 +101,11 @@ def aim_feed(
 
     def evaluate(p, idx):
         reps = p.shape[0] // len(idx)
-        m = run(p, idx).metrics
+        if fixed_speed is None:  # the height at the player needs the bounce
+            m = run(p, idx).metrics
+        else:
+            sp = np.tile(fixed_speed[idx], reps)
+            m = launched(_feed_state(origin, sp, p[:, 0], p[:, 1], np.tile(spin[idx], reps)), far)
         out = [
             (finite(m["flight_ground_x_m"], -30.0) - np.tile(ctx[idx], reps)) / LAND_TOL_M,
             (finite(m["flight_ground_y_m"], 0.0) - np.tile(cty[idx], reps)) / LAND_TOL_M,
@@ -107,7 +122,7 @@ def aim_feed(
         axis=1,
     )
     p0 = np.clip(p0, lo, hi)
-    p, ok, iters = solve(evaluate, p0, lo, hi, scale)
+    p, ok, iters = solve(evaluate, p0, lo, hi, scale, method=method)
     result = run(p, np.arange(n), record=True)
     ok = ok & (reason_pre == "") & (result.metrics["outcome"] != "net")
     reason = _reasons(result.metrics, ok, reason_pre, p, lo, hi, names)
@@ -118,7 +133,9 @@ def aim_feed(
         "topspin": spin,
     }
     settings["azimuth"] = (settings["azimuth"] + math.pi) % (2 * math.pi) - math.pi
-    return AimResult(settings, ok, reason.astype(str), result, tx, ty, iters, mirrored)
+    return AimResult(
+        settings, ok, reason.astype(str), result, tx, ty, iters, mirrored, metrics=result.metrics
+    )
 
 
 def _within_limits(machine, topspin_rpm, speed, n):

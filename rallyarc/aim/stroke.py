@@ -7,6 +7,7 @@ import math
 
 import numpy as np
 
+from rallyarc.aim.first import struck
 from rallyarc.aim.solver import (
     HEIGHT_TOL_M,
     LAND_TOL_M,
@@ -36,6 +37,8 @@ def aim_stroke(
     clearance=None,
     receiver_height=None,
     which=None,
+    method="newton",
+    play=True,
 ):
     """Solve a stroke's free swing parameters so that the ball lands on target.
 
@@ -54,9 +57,18 @@ def aim_stroke(
         azimuth turns with the swing direction (the stroke's offset between them is kept).
     clearance, receiver_height : float or array (N,), optional
         Also meet a net clearance [m] or a ball height at the receiver's plane [m]; the third
-        free parameter is then head speed (style "tilt") or face tilt (style "speed").
+        free parameter is then head speed (style "tilt") or face tilt (style "speed"). NaN
+        entries of an array: those targets have no such goal and keep the stroke's value of
+        the third parameter (targets with and without one solve together in one batch).
     which : int array (N,), optional
         For a sequence of K strokes: the index of each target's stroke.
+    method : {"newton", "broyden"}
+        The solver's Jacobian rule (:func:`rallyarc.aim.solver.solve`).
+    play : bool
+        Play the solved shots through the whole chain, recorded, as ``result``; when false,
+        ``result`` is None and the verdicts come from the flight to the first bounce alone
+        (``swing`` and ``metrics`` of the result hold the solved swings and that flight's
+        metrics), for callers that play the shot themselves.
 
     Returns
     -------
@@ -72,9 +84,14 @@ def aim_stroke(
     names = list(STYLES[free])
     extra = clearance if clearance is not None else receiver_height
     extra_key = "net_clearance_m" if clearance is not None else "receiver_height_m"
+    active = None
     if extra is not None:
         names.append("head_speed" if free == "tilt" else "face_tilt")
         extra = np.broadcast_to(np.asarray(extra, float), tx.shape)
+        has_extra = np.isfinite(extra)
+        if not has_extra.all():  # NaN: this target has no clearance or height to meet
+            active = np.stack([np.ones(tx.size, bool)] * 2 + [has_extra], axis=1)
+            extra = np.where(has_extra, extra, 0.0)
     n = tx.size
     state, base, serve = _batch(incoming, stroke, which, n)
     offset = base.face_azimuth - base.swing_direction
@@ -99,29 +116,41 @@ def aim_stroke(
             st, swings(p, idx), conditions, serve=np.tile(serve[idx], reps), record=record
         )
 
+    def first(p, idx):
+        # the residual's part of the chain: the receiver's height needs the bounce, the rest
+        # only the flight to the first bounce
+        if extra is not None and extra_key == "receiver_height_m":
+            return run(p, idx).metrics
+        reps = p.shape[0] // len(idx)
+        st = BallState(
+            *(np.tile(a[idx], (reps, 1)) for a in (state.position, state.velocity, state.spin))
+        )
+        return struck(st, swings(p, idx), conditions, np.tile(serve[idx], reps))
+
     def evaluate(p, idx):
         reps = p.shape[0] // len(idx)
-        m = run(p, idx).metrics
+        m = first(p, idx)
         out = [
             (finite(m["flight_ground_x_m"], -30.0) - np.tile(tx[idx], reps)) / LAND_TOL_M,
             (finite(m["flight_ground_y_m"], 0.0) - np.tile(ty[idx], reps)) / LAND_TOL_M,
         ]
         if extra is not None:
-            out.append((height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M)
+            miss = (height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M
+            out.append(miss if active is None else np.where(np.tile(has_extra[idx], reps), miss, 0))
         return np.stack(out, axis=1)
 
     p0 = np.stack([getattr(base, k) for k in names], axis=1).astype(float)
     x0, y0 = state.position[:, 0], state.position[:, 1]
     p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
     p0 = np.clip(p0, lo, hi)
-    p, ok, iters = solve(evaluate, p0, lo, hi, scale)
-    result = run(p, np.arange(n), record=True)
-    ok = ok & ~np.isin(result.metrics["outcome"], ("net", "miss"))
-    reason = _reasons(
-        result.metrics, ok, tx, p, lo, hi, names, extra_key if extra is not None else None, extra
-    )
+    p, ok, iters = solve(evaluate, p0, lo, hi, scale, method=method, active=active)
+    every = np.arange(n)
+    result = run(p, every, record=True) if play else None
+    m = result.metrics if play else first(p, every)
+    ok = ok & ~np.isin(m["outcome"], ("net", "miss"))
+    reason = _reasons(m, ok, tx, p, lo, hi, names, extra_key if extra is not None else None, active)
     settings = {name: p[:, j] for j, name in enumerate(names)}
-    return AimResult(settings, ok, reason, result, tx, ty, iters)
+    return AimResult(settings, ok, reason, result, tx, ty, iters, metrics=m, swing=swings(p, every))
 
 
 def _batch(incoming, stroke, which, n):
@@ -144,22 +173,28 @@ def _batch(incoming, stroke, which, n):
     return state, base, serve
 
 
-def _reasons(m, ok, tx, p, lo, hi, names, extra_key, extra):
+def _reasons(m, ok, tx, p, lo, hi, names, extra_key, active):
     reason = np.full(ok.shape, "", dtype=object)
-    at_bound = np.any((p <= lo + 1e-9) | (p >= hi - 1e-9), axis=1)
+    bound = (p <= lo + 1e-9) | (p >= hi - 1e-9)
+    if active is not None:
+        bound &= active
+    at_bound = np.any(bound, axis=1)
+    extra_key = np.full(ok.shape, extra_key, dtype=object)
+    if active is not None:
+        extra_key[~active[:, -1]] = None
     for i in np.flatnonzero(~ok):
         land = m["land_x_m"][i]
         if m["outcome"][i] == "net":
             why = "net: within the style's range every nearby swing puts the ball into the net"
         elif np.isfinite(land) and land > tx[i] + LAND_TOL_M:
             why = "too long: the style cannot bring the ball down short enough"
-        elif extra_key is not None and m["impact_spin_limit_reached"][i]:
+        elif extra_key[i] is not None and m["impact_spin_limit_reached"][i]:
             why = (
                 "friction-only spin limit: the strings already grip the ball, so no swing of "
                 "this style gives the spin the height target needs"
             )
         elif at_bound[i]:
-            bounded = [names[j] for j in np.flatnonzero((p[i] <= lo + 1e-9) | (p[i] >= hi - 1e-9))]
+            bounded = [names[j] for j in np.flatnonzero(bound[i])]
             why = "outside the style's range of " + ", ".join(bounded)
         else:
             why = "no swing of this style found that meets every target"

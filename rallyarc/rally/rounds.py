@@ -229,13 +229,14 @@ def _solve_swings(turns):
             free=s0.aim,
             clearance=s0.clearance,
             which=np.repeat(np.arange(len(members)), [k.size for _, k, _ in members]),
+            play=False,
         )
         at = 0
         for t, k, _ in members:
             part = slice(at, at + k.size)
             at += k.size
             for f in Swing.FIELDS:
-                getattr(t.solved, f)[k] = getattr(res.result.swing, f)[part]
+                getattr(t.solved, f)[k] = getattr(res.swing, f)[part]
             t.reachable[k] = res.reachable[part]
 
 
