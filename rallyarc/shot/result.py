@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -94,24 +94,29 @@ class ShotResult:
             frame[key] = value
         return frame
 
-    def sample(self, times):
-        """Position, velocity and spin of every shot at ``times`` (M,) after contact [s],
-        and the phase index (0 before the bounce, 1 after, -1 outside the shot), ``(M, N)``.
+    def sample(self, times, shots=None):
+        """Position, velocity and spin of the shots ``shots`` (default every shot, ``(S,)``
+        indices) at ``times`` (M,) after contact [s], and the phase index (0 before the bounce,
+        1 after, -1 outside the shot), ``(M, S)``. The cost grows with the shots sampled, not
+        with the shots of the result.
         """
         times = np.asarray(times, float)
-        pos, vel, spin = self.before_bounce.flight.trajectory.sample(times)
-        end0, end1 = self.phase_ends()
+        shots = np.arange(len(self)) if shots is None else np.asarray(shots, int).reshape(-1)
+        before = self.before_bounce
+        pos, vel, spin = _columns(before.flight.trajectory, before.columns(shots)).sample(times)
+        end0, end1 = (e[shots] for e in self.phase_ends())
         phase = np.where(times[:, None] <= end0[None, :], 0, -1)
-        if self.after_bounce is not None:
-            idx = self.after_bounce.shots
-            p2, v2, s2 = self.after_bounce.flight.trajectory.sample(times)
-            after = (times[:, None] > end0[None, idx]) & (times[:, None] <= end1[None, idx])
-            cols = idx[None, :].repeat(times.size, axis=0)
-            rows = np.arange(times.size)[:, None].repeat(idx.size, axis=1)
-            pos[rows[after], cols[after]] = p2[after]
-            vel[rows[after], cols[after]] = v2[after]
-            spin[rows[after], cols[after]] = s2[after]
-            phase[rows[after], cols[after]] = 1
+        after = self.after_bounce
+        j = np.flatnonzero(np.isin(shots, after.shots)) if after is not None else []
+        if len(j):
+            sub = _columns(after.flight.trajectory, after.columns(shots[j]))
+            p2, v2, s2 = sub.sample(times)
+            late = (times[:, None] > end0[None, j]) & (times[:, None] <= end1[None, j])
+            rows, cols = np.nonzero(late)
+            pos[rows, j[cols]] = p2[rows, cols]
+            vel[rows, j[cols]] = v2[rows, cols]
+            spin[rows, j[cols]] = s2[rows, cols]
+            phase[rows, j[cols]] = 1
         return pos, vel, spin, phase
 
     def path(self, i, dt=0.002):
@@ -120,8 +125,8 @@ class ShotResult:
         end0, end1 = self.phase_ends()
         t_end = end1[i] if np.isfinite(end1[i]) else end0[i]
         times = np.union1d(np.arange(0.0, t_end, dt), [0.0, end0[i], t_end])
-        pos, _, _, phase = self.sample(times)
-        pos, phase = pos[:, i], phase[:, i]
+        pos, _, _, phase = self.sample(times, [i])
+        pos, phase = pos[:, 0], phase[:, 0]
         # the bounce point belongs to both phases
         if np.isfinite(end1[i]):
             k = int(np.searchsorted(times, end0[i]))
@@ -243,3 +248,16 @@ def _plain(value):
 
 def _nan(n):
     return np.full(n, np.nan)
+
+
+def _columns(trajectory, cols):
+    """The knots of some balls of a trajectory, as a trajectory of their own."""
+    return replace(
+        trajectory,
+        t=trajectory.t[:, cols],
+        position=trajectory.position[:, cols],
+        velocity=trajectory.velocity[:, cols],
+        acceleration=trajectory.acceleration[:, cols],
+        spin0=trajectory.spin0[cols],
+        t0=trajectory.t0[cols],
+    )
