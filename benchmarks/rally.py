@@ -1,0 +1,60 @@
+"""Rally engine throughput beside the batch engine's, measured in the same run on one core.
+
+The rally rows play the demo pattern pair (``demo_match``) with one process; the batch row plays
+seeded random whole shots (rallyarc.batch.RandomShots) in the demo scenario's conditions with one
+process. The last line is rally shots/s over batch shots/s.
+
+Run: python benchmarks/rally.py [--rallies 2000] [--shots 100000] [--seed 1]
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+import time
+
+from rallyarc import domain
+from rallyarc.batch import RandomShots, run_batch
+from rallyarc.rally import load_patterns, play_rallies
+
+
+def _parse(argv):
+    p = argparse.ArgumentParser(description="Rally shots/s beside batch shots/s, one core.")
+    p.add_argument("--rallies", type=int, default=2000, help="rallies to play (default 2000)")
+    p.add_argument("--shots", type=int, default=100_000, help="batch shots (default 100000)")
+    p.add_argument("--seed", type=int, default=1)
+    args = p.parse_args(argv)
+    if args.rallies < 1 or args.shots < 1:
+        sys.stderr.write("rally.py: error: --rallies and --shots must be at least 1\n")
+        sys.exit(2)
+    return args
+
+
+def main(argv=None):
+    args = _parse(sys.argv[1:] if argv is None else argv)
+    print(
+        f"rallyarc rally throughput: demo_match, seed {args.seed}, one process; load average "
+        f"at start {os.getloadavg()[0]:.2f} (other work on the machine slows every row)"
+    )
+    patterns = load_patterns("demo_match")
+    start = time.perf_counter()
+    run = play_rallies(patterns, n=args.rallies, seed=args.seed, workers=1)
+    rally_s = time.perf_counter() - start
+    shots = len(run.shots)
+    conditions = domain.load_scenario("demo").conditions
+    start = time.perf_counter()
+    run_batch(RandomShots(args.shots, seed=7), conditions, workers=1)
+    batch_s = time.perf_counter() - start
+    rally_rate, batch_rate = shots / rally_s, args.shots / batch_s
+    print(f"{'engine':<28} {'N':>9} {'seconds':>9} {'per second':>12}")
+    rallies_rate = args.rallies / rally_s
+    print(f"{'rally engine: rallies':<28} {args.rallies:>9d} {rally_s:>9.2f} {rallies_rate:>12.0f}")
+    print(f"{'rally engine: shots':<28} {shots:>9d} {rally_s:>9.2f} {rally_rate:>12.0f}")
+    print(f"{'batch engine: whole shots':<28} {args.shots:>9d} {batch_s:>9.2f} {batch_rate:>12.0f}")
+    print(f"load average at the end {os.getloadavg()[0]:.2f}")
+    print(f"rally shots/s / batch shots/s (one core): {rally_rate / batch_rate:.3f}")
+
+
+if __name__ == "__main__":
+    main()
