@@ -8,7 +8,10 @@ and :mod:`rallyarc.viz`.
 
 from __future__ import annotations
 
+import contextlib
+import signal
 import sys
+import threading
 
 import click
 
@@ -19,22 +22,48 @@ __all__ = ["main"]
 
 
 class _Group(click.Group):
-    """A group that turns every usage or input error into one line and exit code 2."""
+    """A group that turns every usage or input error into one line and exit code 2, and stops
+    on SIGTERM as on Ctrl-C (temporary files removed, nothing half-written)."""
 
     def main(self, args=None, prog_name=None, **kwargs):
-        try:
-            return super().main(args=args, prog_name=prog_name, standalone_mode=False, **kwargs)
-        except click.exceptions.Exit as exc:
-            sys.exit(exc.exit_code)
-        except click.Abort:
-            click.echo("rallyarc: aborted", err=True)
-            sys.exit(130)
-        except click.ClickException as exc:
-            click.echo(f"rallyarc: error: {exc.format_message()}", err=True)
-            sys.exit(2)
-        except InputError as exc:
-            click.echo(f"rallyarc: error: {exc}", err=True)
-            sys.exit(2)
+        with _sigterm_as_interrupt() as stopped:
+            try:
+                return super().main(args=args, prog_name=prog_name, standalone_mode=False, **kwargs)
+            except click.exceptions.Exit as exc:
+                sys.exit(exc.exit_code)
+            except click.Abort:
+                click.echo("rallyarc: " + ("terminated" if stopped else "aborted"), err=True)
+                sys.exit(143 if stopped else 130)
+            except click.ClickException as exc:
+                click.echo(f"rallyarc: error: {exc.format_message()}", err=True)
+                sys.exit(2)
+            except InputError as exc:
+                click.echo(f"rallyarc: error: {exc}", err=True)
+                sys.exit(2)
+            except OSError as exc:  # a file system refusing a write that the checks allowed
+                where = f"{exc.filename}: " if exc.filename else ""
+                click.echo(f"rallyarc: error: {where}{exc.strerror or exc}", err=True)
+                sys.exit(2)
+
+
+@contextlib.contextmanager
+def _sigterm_as_interrupt():
+    """While a command runs, SIGTERM raises KeyboardInterrupt as Ctrl-C does; the yielded list
+    is non-empty once it came. The previous handler is put back afterwards."""
+    stopped = []
+
+    def handler(signum, frame):
+        stopped.append(signum)
+        raise KeyboardInterrupt
+
+    if threading.current_thread() is not threading.main_thread():
+        yield stopped
+        return
+    previous = signal.signal(signal.SIGTERM, handler)
+    try:
+        yield stopped
+    finally:
+        signal.signal(signal.SIGTERM, previous)
 
 
 @click.group(cls=_Group)

@@ -11,6 +11,7 @@ from rallyarc.cli.options import (
     json_option,
     output_folder,
     time_step,
+    write_folder,
 )
 
 #: Files ``drill --out`` writes.
@@ -51,7 +52,9 @@ def drill(drill_file, out_dir, speed_units, dt, force, as_json):
     records = sheet.astype(object).where(sheet.notna(), None).to_dict(orient="records")
     data = {"drill": d.name, "coach": d.coach, "club": d.club, "safety": SAFETY, "balls": records}
     if folder is not None:
-        written = _write_drill(d, sheet, results, data, folder, step, speed_units)
+        written = write_folder(
+            folder, lambda f: _write_drill(d, sheet, results, data, f, step, speed_units)
+        )
         lines.append("written: " + ", ".join(str(p) for p in written))
     emit(data, as_json, lines)
 

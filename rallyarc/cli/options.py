@@ -72,14 +72,15 @@ def figure_path(text, option="--out", suffixes=FIGURE_SUFFIXES):
     path = Path(text)
     if path.suffix.lower() not in suffixes:
         raise InputError(f"{option}: {path} must end in {', '.join(suffixes)}")
-    if path.exists() and path.is_dir():
+    if path.is_dir():
         raise InputError(f"{option}: {path} is a folder, not a file")
     return path
 
 
 def output_folder(out_dir, names, force):
-    """The ``--out`` folder (or None), refused if it is a file or would overwrite any of
-    ``names`` without ``force``."""
+    """The ``--out`` folder (or None), refused before any work if it is a file, cannot be
+    written, or would overwrite any of ``names`` without ``force``. Write it with
+    :func:`write_folder`, which replaces it as a whole."""
     from rallyarc.output import export
 
     if out_dir is None:
@@ -87,15 +88,30 @@ def output_folder(out_dir, names, force):
     folder = Path(out_dir)
     if folder.exists() and not folder.is_dir():
         raise InputError(f"--out: {folder} is a file, not a folder")
+    export.check_writable(folder.parent if str(folder.parent) else Path("."), "--out")
     export.check_targets([folder / n for n in names], force)
     return folder
 
 
-def check_file(path, force, option="--csv"):
-    """Refuse to overwrite an existing output file without ``force``."""
+def write_folder(folder, write):
+    """Write the whole ``--out`` folder with ``write(staging)``; see
+    :func:`rallyarc.output.export.write_folder`."""
+    from rallyarc.output import export
+
+    return export.write_folder(folder, write)
+
+
+TABLE_SUFFIXES = (".csv", ".parquet")
+
+
+def check_file(path, force, option="--csv", suffixes=TABLE_SUFFIXES):
+    """Refuse, before any work, an output table file with another suffix, one that cannot be
+    written, or an existing one without ``force``."""
     from rallyarc.output import export
 
     if path is not None:
+        if Path(path).suffix.lower() not in suffixes:
+            raise InputError(f"{option}: {path} must end in {', '.join(suffixes)}")
         export.check_targets([path], force, option)
 
 

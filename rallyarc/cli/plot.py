@@ -18,6 +18,7 @@ from rallyarc.cli.options import (
     save_figure,
     scenario_options,
     spread_options,
+    whole,
 )
 from rallyarc.errors import InputError
 
@@ -167,12 +168,11 @@ def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, bal
 
     path = figure_path(out)
     keys = _metric_keys(metrics)
-    targets = [path]
+    export.check_targets([path], force, "--out")
     if csv_path is not None:
         csv_path = figure_path(csv_path, "--csv", (".csv",))
-        targets.append(csv_path)
-    export.check_targets(targets, force)
-    n = int(units.number(steps, "--steps", 2, 500))
+        export.check_targets([csv_path], force, "--csv")
+    n = whole(steps, "--steps", 2, 500)
     p = _parameter(param, "--param")
     sc, stroke, incoming = _one_stroke(
         scenario, stroke_name, ball, racket, air, surface_name, receiver_plane
@@ -232,7 +232,7 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
             "--axes: two different swing parameters (head_speed, face_tilt, swing_path) or two "
             "launch parameters (launch_speed, launch_angle, launch_spin)"
         ) from None
-    n = int(units.number(steps, "--steps", 3, 201))
+    n = whole(steps, "--steps", 3, 201)
     sc, stroke, incoming = _one_stroke(
         scenario, stroke_name, ball, racket, air, surface_name, receiver_plane
     )

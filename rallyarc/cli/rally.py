@@ -12,7 +12,7 @@ import sys
 
 import click
 
-from rallyarc.cli.options import force_option, json_option, output_folder, whole
+from rallyarc.cli.options import force_option, json_option, output_folder, whole, write_folder
 
 #: Files the command writes into --out.
 OUTPUTS = (
@@ -62,7 +62,7 @@ def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as
     summary = summarize(run)
     lines = summary_lines(summary)
     if folder is not None:
-        written = write_outputs(run, summary, folder)
+        written = write_folder(folder, lambda f: write_outputs(run, summary, f))
         lines.append("written: " + ", ".join(str(p) for p in written))
     if as_json:
         click.echo(json.dumps(summary, indent=2))

@@ -49,11 +49,10 @@ def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plan
         if camera == "all"
         else [png]
     )
-    targets = list(pngs)
+    export.check_targets(pngs, force, "--out")
     if export_path is not None:
         export_path = figure_path(export_path, "--export", (".html", ".gltf"))
-        targets.append(export_path)
-    export.check_targets(targets, force)
+        export.check_targets([export_path], force, "--export")
     if show and not scenes.has_display():
         raise InputError("--show: no display found (DISPLAY is not set); the PNG is still written "
                          "without --show")  # fmt: skip

@@ -20,6 +20,7 @@ from rallyarc.cli.options import (
     output_folder,
     scenario_with,
     time_step,
+    write_folder,
 )
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
@@ -176,7 +177,7 @@ def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_
     )
     lines = comparison_table(result, title=title)
     if folder is not None:
-        written = _write_compare(result, records, folder, step)
+        written = write_folder(folder, lambda d: _write_compare(result, records, d, step))
         lines.append("written: " + ", ".join(str(p) for p in written))
     emit(
         {"scenario": sc.name, "player": sc.player, "club": sc.club, "shots": records},
