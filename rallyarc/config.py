@@ -6,6 +6,7 @@ of range are :class:`InputError` messages naming the file, the key and the allow
 
 from __future__ import annotations
 
+import difflib
 import math
 import tomllib
 from dataclasses import dataclass
@@ -275,17 +276,43 @@ def preset_names(kind):
 def _read(kind, name_or_path):
     text_path = str(name_or_path)
     if text_path.endswith(".toml") or "/" in text_path:
-        path = Path(text_path)
-        if not path.is_file():
-            raise InputError(f"{path}: no such file")
-        return str(path), path.read_bytes().decode("utf-8")
+        return str(text_path), decode(Path(text_path))
     names = preset_names(kind)
     if text_path not in names:
-        raise InputError(
-            f"unknown {kind[:-1]} preset {text_path!r}; choose one of " + ", ".join(names)
-        )
+        raise InputError(f"unknown {kind[:-1]} preset {text_path!r}; " + _choices(text_path, names))
     item = _package_dir(kind) / f"{text_path}.toml"
     return f"configs/{kind}/{text_path}.toml", item.read_text(encoding="utf-8")
+
+
+def decode(path):
+    """The text of a config file: UTF-8, with or without a byte-order mark. A missing or
+    unreadable file, a folder, or bytes that are not UTF-8 text are one line naming the file."""
+    path = Path(path)
+    if path.is_dir():
+        raise InputError(f"{path}: is a folder, not a TOML file")
+    if not path.is_file():
+        raise InputError(f"{path}: no such file")
+    try:
+        data = path.read_bytes()
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read the file: {exc.strerror}") from None
+    try:
+        text = data.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise InputError(
+            f"{path}: not UTF-8 text (byte 0x{data[exc.start]:02x} at offset {exc.start}); "
+            "save the file as UTF-8"
+        ) from None
+    if "\x00" in text:
+        raise InputError(f"{path}: a binary file, not TOML text (it holds NUL bytes)")
+    return text
+
+
+def _choices(name, names):
+    """``choose one of ...``, led by the names closest to ``name``."""
+    close = difflib.get_close_matches(name, names, n=3, cutoff=0.6)
+    hint = f"did you mean {', '.join(close)}? " if close else ""
+    return hint + "choose one of " + ", ".join(names)
 
 
 def _number(value, spec, label):

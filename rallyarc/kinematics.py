@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["heading_vector", "topspin_axis", "velocity", "spin", "topspin_sidespin"]
+__all__ = ["heading_vector", "topspin_axis", "velocity", "spin", "topspin_sidespin", "unit"]
 
 
 def heading_vector(azimuth):
@@ -58,3 +58,22 @@ def topspin_sidespin(velocity, spin):
     # z x (dx, dy, 0) = (-dy, dx, 0)
     top = -dy * spin[:, 0] + dx * spin[:, 1]
     return np.where(norm > 0, top, spin[:, 1]), spin[:, 2]
+
+
+def unit(vectors, name="vector"):
+    """Unit vectors ``(N, 3)`` along ``vectors`` ``(N, 3)`` or ``(3,)``: the one guarded way to
+    normalise a direction in the application.
+
+    Each vector is first divided by its largest component, so a direction given with tiny or
+    huge components (``0, 1e-200, 0``) is normalised without underflow or overflow. A vector
+    that has no direction (all zero) or a component that is not finite raises ValueError
+    naming ``name``.
+    """
+    v = np.atleast_2d(np.asarray(vectors, dtype=float))
+    if not np.all(np.isfinite(v)):
+        raise ValueError(f"{name} must have finite components")
+    scale = np.max(np.abs(v), axis=1, keepdims=True)
+    if np.any(scale == 0.0):
+        raise ValueError(f"{name} must not be the zero vector")
+    scaled = v / scale
+    return scaled / np.linalg.norm(scaled, axis=1, keepdims=True)

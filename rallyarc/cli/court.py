@@ -12,20 +12,21 @@ import math
 import click
 
 from rallyarc import units
-from rallyarc.cli.options import emit, json_option
+from rallyarc.cli.options import emit, json_option, loaded
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
 
 
-def _surface(preset, friction, restitution):
-    """The surface of a preset or file, or of --friction and --restitution, and its name."""
+def _surface(preset, friction, restitution, option):
+    """The surface of a preset or file (given with ``option``), or of --friction and
+    --restitution, and its name."""
     from rallyarc.bounce.contact import Surface
     from rallyarc.domain import load_surface
 
     if preset is not None:
         if friction is not None or restitution is not None:
-            raise InputError("--preset: give either --preset or --friction and --restitution")
-        return load_surface(preset), preset
+            raise InputError(f"{option}: give either {option} or --friction and --restitution")
+        return loaded(option, load_surface, preset), preset
     if friction is None or restitution is None:
         raise InputError("--friction/--restitution: give both, or a preset")
     mu = units.number(friction, "--friction", 0.0, 2.0)
@@ -45,7 +46,7 @@ def surface(friction, restitution, preset, temperature, as_json):
 
     if preset is None and friction is None and restitution is None:
         preset = "hard_medium"
-    surf, name = _surface(preset, friction, restitution)
+    surf, name = _surface(preset, friction, restitution, "--preset")
     temp = units.number(temperature, "--temperature", -10.0, 50.0)
     rating = rate_surface(surf, temperature_c=temp)
     data = {
@@ -99,11 +100,11 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_jso
 
     if surface_name is None and friction is None and restitution is None:
         surface_name = "hard_medium"
-    surf, name = _surface(surface_name, friction, restitution)
+    surf, name = _surface(surface_name, friction, restitution, "--surface")
     v = units.speed(speed, "--speed", 0.1, 80.0)
     theta = math.radians(units.number(angle, "--angle", 0.1, 90.0))
     w = units.number(spin, "--spin", -8000.0, 8000.0) * units.RPM
-    preset = load_ball(ball)
+    preset = loaded("--ball", load_ball, ball)
     res = bounce_ball(
         np.array([[v * math.cos(theta), 0.0, -v * math.sin(theta)]]),
         np.array([[0.0, w, 0.0]]),

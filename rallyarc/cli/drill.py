@@ -9,6 +9,7 @@ from rallyarc.cli.options import (
     emit,
     force_option,
     json_option,
+    loaded,
     output_folder,
     time_step,
     write_folder,
@@ -44,7 +45,7 @@ def drill(drill_file, out_dir, speed_units, dt, force, as_json):
     """Solve every ball of a drill file and print (or write) its drill sheet."""
     from rallyarc.drill import SAFETY, load_drill, sheet_lines, solve_drill
 
-    d = load_drill(drill_file)
+    d = loaded("DRILL_FILE", load_drill, drill_file)
     step = time_step(dt)
     folder = output_folder(out_dir, DRILL_OUTPUTS, force)
     sheet, results = solve_drill(d)

@@ -61,9 +61,7 @@ def feed(origin, speed, elevation, azimuth, spin, spin_axis, ball, aero, air_den
         raise InputError(
             f"--aero: unknown model {aero!r}; choose one of " + ", ".join(sorted(AERO_MODELS))
         )
-    axis = units.point(spin_axis, "--spin-axis", -1e3, 1e3)
-    if math.hypot(*axis) == 0:
-        raise InputError("--spin-axis: must not be the zero vector")
+    axis = units.direction(spin_axis, "--spin-axis", -1e3, 1e3)
     result = simulate_feed(
         origin=units.point(origin, "--from", -30.0, 30.0),
         speed=units.speed(speed, "--speed", 0.1, 80.0),

@@ -8,7 +8,8 @@ Heavy imports (the library's solvers, pandas, matplotlib) stay inside the functi
 
 from __future__ import annotations
 
-import json
+import math
+import re
 from pathlib import Path
 
 import click
@@ -21,12 +22,27 @@ FIGURE_SUFFIXES = (".png", ".pdf", ".svg")
 
 
 def emit(data, as_json, lines):
-    """Print ``data`` as indented JSON, or the text ``lines``."""
+    """Print ``data`` as indented strict JSON (non-finite numbers as null), or the text
+    ``lines`` (any non-finite number left in them shown as ``n/a``)."""
     if as_json:
-        click.echo(json.dumps(data, indent=2))
+        from rallyarc.output.jsonsafe import dumps
+
+        click.echo(dumps(data))
     else:
         for line in lines:
-            click.echo(line)
+            click.echo(_NOT_FINITE.sub("n/a", line))
+
+
+#: A number printed as nan or inf, not part of a word.
+_NOT_FINITE = re.compile(r"(?<![A-Za-z])[+-]?(?:nan|inf)(?![A-Za-z])")
+
+
+def number_text(value, fmt, missing="n/a"):
+    """``value`` formatted with ``fmt`` (such as ``"{:+.2f}"``), or ``missing`` when it is None
+    or not finite."""
+    if value is None or not math.isfinite(value):
+        return missing
+    return fmt.format(value)
 
 
 def json_option(help="Print a JSON object."):
@@ -137,22 +153,31 @@ def condition_options(func):
     return func
 
 
-def scenario_with(scenario, ball, racket, air, surface_name, receiver_plane):
-    """The scenario with any condition the user overrides."""
+def loaded(option, loader, value):
+    """``loader(value)``; an error in the preset or file is prefixed with ``option``, the
+    option (or argument) the user gave it with."""
+    try:
+        return loader(value)
+    except InputError as exc:
+        raise InputError(f"{option}: {exc}") from None
+
+
+def scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, option="--scenario"):
+    """The scenario with any condition the user overrides; errors name the option."""
     from dataclasses import replace
 
     from rallyarc import domain
 
-    sc = domain.load_scenario(scenario)
+    sc = loaded(option, domain.load_scenario, scenario)
     changes = {}
     if ball is not None:
-        changes["ball"] = domain.load_ball(ball)
+        changes["ball"] = loaded("--ball", domain.load_ball, ball)
     if racket is not None:
-        changes["racket"] = domain.load_racket(racket)
+        changes["racket"] = loaded("--racket", domain.load_racket, racket)
     if air is not None:
-        changes["air"] = domain.load_air(air)
+        changes["air"] = loaded("--air", domain.load_air, air)
     if surface_name is not None:
-        changes["surface"] = domain.load_surface(surface_name)
+        changes["surface"] = loaded("--surface", domain.load_surface, surface_name)
         changes["surface_name"] = surface_name
     if receiver_plane is not None:
         changes["receiver_plane_m"] = units.number(receiver_plane, "--receiver-plane", 0.0, 10.0)
@@ -220,7 +245,7 @@ def figure_output_option(default):
 def load_strokes(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane):
     """The scenario with its overrides, the strokes chosen by name (default: all) and the
     incoming ball."""
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, "SCENARIO")
     strokes = list(sc.strokes)
     if stroke_names:
         by_name = {s.name: s for s in strokes}

@@ -6,13 +6,19 @@ The command only parses options and calls :func:`rallyarc.rally.play_rallies` an
 
 from __future__ import annotations
 
-import json
 import os
 import sys
 
 import click
 
-from rallyarc.cli.options import force_option, json_option, output_folder, whole, write_folder
+from rallyarc.cli.options import (
+    force_option,
+    json_option,
+    loaded,
+    output_folder,
+    whole,
+    write_folder,
+)
 
 #: Files the command writes into --out.
 OUTPUTS = (
@@ -55,7 +61,7 @@ def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as
     s = whole(seed, "--seed", 0, 2**32 - 1)
     limit = None if max_shots is None else whole(max_shots, "--max-shots", 1, 200)
     procs = (os.cpu_count() or 1) if workers == "auto" else whole(workers, "--workers", 1, 64)
-    pat = load_patterns(patterns)
+    pat = loaded("PATTERNS", load_patterns, patterns)
     folder = output_folder(out_dir, OUTPUTS, force)
     progress = not quiet and not as_json and sys.stderr.isatty()
     run = play_rallies(pat, n=n, seed=s, max_shots=limit, progress=progress, workers=procs)
@@ -65,7 +71,9 @@ def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as
         written = write_folder(folder, lambda f: write_outputs(run, summary, f))
         lines.append("written: " + ", ".join(str(p) for p in written))
     if as_json:
-        click.echo(json.dumps(summary, indent=2))
+        from rallyarc.output.jsonsafe import dumps
+
+        click.echo(dumps(summary))
     else:
         click.echo("\n".join(lines))
 

@@ -17,6 +17,7 @@ from rallyarc.cli.options import (
     incoming_ball,
     incoming_table,
     json_option,
+    loaded,
     output_folder,
     scenario_with,
     time_step,
@@ -87,7 +88,8 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
     from rallyarc.shot import play
 
     sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
-    st = _swing(domain.load_stroke(stroke), head_speed, swing_path, face_tilt, swing_direction)
+    st = loaded("--stroke", domain.load_stroke, stroke)
+    st = _swing(st, head_speed, swing_path, face_tilt, swing_direction)
     step = time_step(dt)
     check_file(csv_path, force)
     st, incoming = _incoming(sc, st, contact, incoming_speed, incoming_spin)
@@ -164,7 +166,7 @@ def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_
     from rallyarc.output.tables import comparison_table
     from rallyarc.shot import play
 
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, "SCENARIO")
     step = time_step(dt)
     folder = output_folder(out_dir, COMPARE_OUTPUTS, force)
     result = play(sc.strokes, _played_conditions(sc, friction_only), incoming_ball(sc))

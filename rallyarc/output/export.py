@@ -7,7 +7,6 @@ of a new one.
 
 from __future__ import annotations
 
-import json
 import os
 import secrets
 import shutil
@@ -17,6 +16,7 @@ import threading
 from pathlib import Path
 
 from rallyarc.errors import InputError
+from rallyarc.output.jsonsafe import dumps
 
 
 def check_targets(paths, force, option="--out"):
@@ -108,7 +108,8 @@ def write_text(path, text):
 
 
 def write_json(path, data):
-    return write_text(path, json.dumps(data, indent=2) + "\n")
+    """``data`` as strict JSON: non-finite numbers are written as null, never NaN."""
+    return write_text(path, dumps(data) + "\n")
 
 
 def write_frame(path, frame):

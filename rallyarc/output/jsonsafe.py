@@ -24,3 +24,10 @@ def json_ready(value):
     if isinstance(value, float) and not math.isfinite(value):
         return None
     return value
+
+
+def dumps(value, indent=2):
+    """Strict JSON text of ``value`` (made :func:`json_ready` first): never NaN or Infinity."""
+    import json
+
+    return json.dumps(json_ready(value), indent=indent, allow_nan=False)
