@@ -7,6 +7,7 @@ import click
 from rallyarc import config
 from rallyarc.cli.options import emit, json_option
 from rallyarc.errors import InputError
+from rallyarc.flight.aero import AERO_MODELS
 
 #: One line of key figures per kind of preset.
 _PRESET_FIGURES = {
@@ -42,17 +43,35 @@ _PRESET_FIGURES = {
 }
 
 
+#: The aerodynamic models a ball preset's ``aero`` key may name, listed as a kind of its own.
+_AERO = "aero"
+
+
+def _aero_models(data, lines):
+    """Each aerodynamic model: where it comes from and where it holds."""
+    data[_AERO] = {}
+    lines.append(f"{_AERO}:")
+    for name, model in AERO_MODELS.items():
+        data[_AERO][name] = {"name": name, "source": model.source, "validity": model.validity}
+        lines.append(f"  {name:17s} source: {model.source}")
+        lines.append(f"  {'':17s} range of validity: {model.validity}")
+
+
 @click.command()
 @click.argument("kind", required=False)
 @json_option()
 def presets(kind, as_json):
     """The built-in presets of each KIND (balls, surfaces, rackets, air, strokes, scenarios,
-    machines, drills, patterns) with their key figures and sources."""
-    kinds = list(_PRESET_FIGURES)
+    machines, drills, patterns) with their key figures and sources, and the aerodynamic models
+    (aero) with their sources and ranges of validity."""
+    kinds = [*_PRESET_FIGURES, _AERO]
     if kind is not None and kind not in kinds:
         raise InputError(f"KIND: unknown preset kind {kind!r}; choose one of " + ", ".join(kinds))
     data, lines = {}, []
     for k in [kind] if kind else kinds:
+        if k == _AERO:
+            _aero_models(data, lines)
+            continue
         data[k] = {}
         lines.append(f"{k}:")
         for name in config.preset_names(k):

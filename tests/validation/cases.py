@@ -16,6 +16,7 @@ import numpy as np
 from rallyarc import domain
 from rallyarc.bounce.pace import court_pace_rating
 from rallyarc.impact.contact import collide, hit
+from rallyarc.impact.racket import apparent_cor, effective_mass
 
 
 @dataclass(frozen=True)
@@ -89,6 +90,29 @@ def _forehand_speed_at_measured_head_speed():
     return m["impact_speed_mps"][0] * 3.6
 
 
+def _apparent_cor(impact_from_butt, offaxis=0.0, speed=15.0):
+    """Apparent COR of the free standard racket (at rest) for a ball fired at ``speed`` into the
+    face at the given impact point, with the string bed's restitution at that speed."""
+    setup = domain.load_racket("standard")
+    r = setup.racket
+    big_m = effective_mass(
+        r.mass_kg, r.balance_m, r.swingweight_kgm2, impact_from_butt, offaxis, r.twistweight_kgm2
+    )
+    e = setup.normal_restitution(np.array([speed]))[0]
+    return apparent_cor(e, big_m, domain.load_ball("itf_type2").mass)
+
+
+#: Where the power-potential measurements below were taken, on a frame of nearly the standard
+#: preset's mass, balance and swingweight (from memory): the string bed's centre at the
+#: preset's default impact point, 0.52 m from the butt; the throat point 0.10 m below it
+#: (from memory); the periphery points three inches (0.0762 m) to either side of the centre
+#: (stated with the measurements).
+_POWER_POTENTIAL = (
+    "C. Lindsey, Tennis Warehouse University, 'Total performance' (power potential, ball "
+    "fired at a free racket at rest): a popular 100 sq in frame"
+)
+
+
 def _drop_rebound():
     return domain.drop_test_rebound(domain.load_ball("itf_type2"))[0] * 100.0
 
@@ -154,13 +178,46 @@ CASES = (
         "ball speed of the topspin drive swung at 33.1 m/s against a 20 m/s ball",
         "Landlinger et al. (2010), J. Sports Sci. Med. 9:643: racket 33.1 +- 2.4 m/s "
         "(professionals); ball speed ~ rally 110.1 +- 10.2 km/h (men), Bower & Cross (2005), "
-        "J. Sports Sci.; elite men 117 km/h (Sports Eng. 11:31, 2008)",
+        "J. Sports Sci.; elite men 117 km/h (Sports Eng. 11:31, 2008). The study tracked "
+        "markers on the racquet head and shaft; the model's head speed is the impact point's, "
+        "and which point the published racquet velocity belongs to is not confirmed here",
         117.0,
         107.0,
         127.0,
         "km/h",
         _forehand_speed_at_measured_head_speed,
         holds=False,
+    ),
+    Case(
+        "apparent_cor_centre",
+        "apparent COR at the string bed's centre, free racket at rest, 15 m/s",
+        _POWER_POTENTIAL + ": 41 % at the centre; band +- 0.04, the spread of such values "
+        "between current frames (from memory)",
+        0.41,
+        0.37,
+        0.45,
+        "-",
+        lambda: _apparent_cor(0.52),
+    ),
+    Case(
+        "apparent_cor_throat",
+        "apparent COR in the throat (0.10 m below the centre), free racket at rest, 15 m/s",
+        _POWER_POTENTIAL + ": 51 % in the throat, always the highest; band +- 0.04 (from memory)",
+        0.51,
+        0.47,
+        0.55,
+        "-",
+        lambda: _apparent_cor(0.42),
+    ),
+    Case(
+        "apparent_cor_periphery",
+        "apparent COR three inches to the side of the centre, free racket at rest, 15 m/s",
+        _POWER_POTENTIAL + ": 20.5 % at the periphery; band +- 0.04 (from memory)",
+        0.205,
+        0.165,
+        0.245,
+        "-",
+        lambda: _apparent_cor(0.52, 0.0762),
     ),
     Case(
         "itf_drop_test",
