@@ -52,17 +52,3 @@ def point(text, option, low=-50.0, high=50.0):
     if len(parts) != 3:
         raise InputError(f"{option}: expected a point X,Y,Z in metres, got {text!r}")
     return tuple(number(p.strip(), option, low, high) for p in parts)
-
-
-def direction(text, option, low=-1e3, high=1e3):
-    """A direction ``X,Y,Z`` (any length, as a unit vector); the zero vector, or one whose
-    direction is lost, is refused naming the option."""
-    from rallyarc.kinematics import unit
-
-    vector = point(text, option, low, high)
-    try:
-        return tuple(float(c) for c in unit(vector, option)[0])
-    except ValueError as exc:
-        raise InputError(
-            f"{option}: {exc.args[0].removeprefix(option + ' ')}, got {text!r}"
-        ) from None

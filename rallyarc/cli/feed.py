@@ -7,7 +7,7 @@ import math
 import click
 
 from rallyarc import units
-from rallyarc.cli.options import emit, json_option
+from rallyarc.cli.options import direction, emit, json_option
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
 
@@ -61,7 +61,7 @@ def feed(origin, speed, elevation, azimuth, spin, spin_axis, ball, aero, air_den
         raise InputError(
             f"--aero: unknown model {aero!r}; choose one of " + ", ".join(sorted(AERO_MODELS))
         )
-    axis = units.direction(spin_axis, "--spin-axis", -1e3, 1e3)
+    axis = direction(spin_axis, "--spin-axis", -1e3, 1e3)
     result = simulate_feed(
         origin=units.point(origin, "--from", -30.0, 30.0),
         speed=units.speed(speed, "--speed", 0.1, 80.0),

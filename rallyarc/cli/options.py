@@ -75,6 +75,19 @@ def whole(text, option, low, high):
     return value
 
 
+def direction(text, option, low=-1e3, high=1e3):
+    """A direction ``X,Y,Z`` (any length) as a unit vector; the zero vector is refused naming
+    the option."""
+    from rallyarc.kinematics import unit
+
+    vector = units.point(text, option, low, high)
+    try:
+        return tuple(float(c) for c in unit(vector, option)[0])
+    except ValueError as exc:
+        reason = exc.args[0].removeprefix(option + " ")
+        raise InputError(f"{option}: {reason}, got {text!r}") from None
+
+
 def court_point(text, option="--target"):
     """A point ``X,Y`` on the court [m]."""
     parts = str(text).split(",")
