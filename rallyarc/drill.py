@@ -124,6 +124,8 @@ def solve_drill(drill):
                 "bounce_apex_m": m["bounce_apex_m"][j],
                 "height_at_player_m": m["receiver_height_m"][j],
                 "time_to_player_s": m["receiver_t_s"][j],
+                "player_before_bounce": bool(m["receiver_before_bounce"][j]),
+                "outcome": str(m["outcome"][j]),
                 "reachable": bool(aim.reachable[j]),
                 "note": aim.reason[j],
             }
@@ -140,10 +142,11 @@ def sheet_lines(drill, sheet, units="kmh"):
         f"y {drill.position[1]:+.1f} m, release {drill.machine.release_height:.2f} m; "
         f"surface {drill.conditions.surface_name}",
         "aim: horizontal angle from straight down the court, + to the machine's left; "
-        "player: ball height at the player's contact plane (- where it bounces twice first)",
+        "player: ball height at the player's contact plane (- where it bounces twice first); "
+        "call: where the ball landed (in, net, long, wide, out)",
         "",
         f"{'#':>2} {'reps':>4} {'speed':>6} {'elev':>5} {'aim':>6} {'spin':>6} {'lands at':>13}"
-        f" {'apex':>5} {'player':>6} {'time':>5}  ball",
+        f" {'apex':>5} {'player':>6} {'time':>5} {'call':>4}  ball",
         f"{'':>2} {'':>4} {speed_unit:>6} {'deg':>5} {'L deg':>6} {'rpm':>6} {'x, y [m]':>13}"
         f" {'m':>5} {'m':>6} {'s':>5}",
     ]
@@ -159,7 +162,7 @@ def sheet_lines(drill, sheet, units="kmh"):
             f"{row.elevation_deg:5.1f} {row.aim_left_deg:+6.1f} {row.spin_rpm:+6.0f} "
             f"{landing:>13} {num(row.bounce_apex_m, '{:5.2f}'):>5} "
             f"{num(row.height_at_player_m, '{:6.2f}'):>6} {num(row.time_to_player_s, '{:5.2f}'):>5}"
-            f"  {row.label}{flag}"
+            f" {row.outcome:>4}  {row.label}{flag}"
         )
     lines += ["", SAFETY]
     return lines

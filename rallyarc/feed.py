@@ -1,36 +1,106 @@
-"""A ball launched from a point (a coach's hand or a ball machine) flown to its first bounce."""
+"""A fed ball (a coach's hand or a ball machine) through the whole chain: flight, the net (a
+ball that meets it stops there, outcome ``net``), the landing and its line call, the bounce, the
+flight after it to the receiver's plane and the second bounce; the metrics of ``shot``.
+
+The chain plays balls hit from the near end toward +x. A ball fed toward -x (from the far end)
+is played turned 180 degrees about z, and its record is turned back to the court frame.
+"""
 
 from __future__ import annotations
 
-from dataclasses import replace
+from dataclasses import dataclass, replace
 
 import numpy as np
 
 from rallyarc import domain, kinematics
-from rallyarc.court import net_height
-from rallyarc.flight.forces import FlightParams
-from rallyarc.flight.integrate import PlaneEvent, fly, ground_contact
+from rallyarc.shot import BallState, launch
+from rallyarc.units import KMH_PER_MPS, RPM
+
+#: The caution printed with every feed: machines and fast feeds can injure.
+SAFETY = (
+    "Safety: a ball machine or a fast feed can injure. Keep everyone out of the line of fire "
+    "while it is loaded, start at low feed speeds, and follow the venue's rules and qualified "
+    "coaching practice."
+)
+
+#: Default conditions of a feed (the same defaults as the scenarios').
+DEFAULT_BALL = "itf_type2"
+DEFAULT_AIR = "sea_level"
+DEFAULT_SURFACE = "hard_medium"
 
 
-def flight_params(ball, air_density, aero=None, spin_decay_rate=0.0, wind=(0.0, 0.0, 0.0)):
-    """Flight parameters of a ball (a :class:`rallyarc.domain.Ball`) in air of ``air_density``
-    [kg/m^3], with its own aerodynamic model or the model named ``aero``; as
-    :meth:`rallyarc.domain.Conditions.flight_params` builds them for the chain."""
+def feed_conditions(
+    ball=DEFAULT_BALL,
+    air=DEFAULT_AIR,
+    surface=DEFAULT_SURFACE,
+    air_density=None,
+    aero=None,
+    receiver_plane_m=1.0,
+    singles=True,
+):
+    """The :class:`rallyarc.domain.Conditions` a ball is fed in: ball, air and surface by
+    preset name, file or object; ``air_density`` [kg/m^3] replaces the air's density and
+    ``aero`` names an aerodynamic model instead of the ball's own."""
+    ball = domain.load_ball(ball) if isinstance(ball, str) else ball
     if aero:
         ball = replace(ball, aero_model=aero)
-    return FlightParams(
-        mass=ball.mass,
-        radius=ball.radius,
-        air_density=air_density,
-        aero=ball.aero,
-        spin_decay_rate=spin_decay_rate,
-        wind=wind,
+    air = domain.load_air(air) if isinstance(air, str) else air
+    if air_density is not None:
+        air = replace(air, name="custom", density=float(air_density))
+    surface_name = surface if isinstance(surface, str) else "custom"
+    surface = domain.load_surface(surface) if isinstance(surface, str) else surface
+    return domain.Conditions(
+        ball=ball,
+        racket=domain.load_racket("standard"),  # a feed meets no racket
+        air=air,
+        surface=surface,
+        surface_name=surface_name,
+        receiver_plane_m=float(receiver_plane_m),
+        singles=singles,
     )
 
 
-def launch_velocity(speed, elevation, azimuth):
-    """Velocity vectors (N, 3) [m/s] from speed [m/s], elevation and azimuth [rad] (toward +x)."""
-    return kinematics.velocity(speed, elevation, azimuth)
+def _mirror_field(field):
+    return field in ("x_m", "y_m") or field.endswith(("_x_m", "_y_m"))
+
+
+@dataclass(frozen=True)
+class Feed:
+    """One fed ball: the chain's :class:`rallyarc.shot.ShotResult` (played toward +x),
+    whether the ball was turned 180 degrees about z to play it (``mirrored``) and the feed's
+    inputs (in the units of their keys)."""
+
+    result: object
+    mirrored: bool
+    inputs: dict
+
+    @property
+    def outcome(self):
+        """in, net, long, wide or out."""
+        return str(self.result.outcome[0])
+
+    def record(self):
+        """The fed ball as a JSON-ready dict in the court frame, with the blocks of
+        ``shot --json`` (net_crossing, landing, bounce, flight, receiver, outcome); its
+        ``inputs`` are the feed's, ``impact`` the ball leaving the hand or machine."""
+        rec = self.result.record(0)
+        rec["inputs"] = dict(self.inputs)
+        if self.mirrored:
+            for name, block in rec.items():
+                if name == "inputs" or not isinstance(block, dict):
+                    continue
+                for field, value in block.items():
+                    if _mirror_field(field) and value is not None:
+                        block[field] = -value
+            azimuth = (rec["impact"]["azimuth_deg"] + 180.0) % 360.0
+            rec["impact"]["azimuth_deg"] = azimuth - 360.0 if azimuth > 180.0 else azimuth
+        return rec
+
+    def __repr__(self):
+        rec = self.record()
+        land = rec["landing"]
+        where = f"lands x {land['x_m']:+.2f} m, y {land['y_m']:+.2f} m" if land else "no landing"
+        return f"<Feed: {self.inputs['speed_kmh']:.1f} km/h, {where}, {self.outcome}>"
 
 
 def simulate_feed(
@@ -40,75 +110,69 @@ def simulate_feed(
     azimuth,
     spin,
     spin_axis=(0.0, 1.0, 0.0),
-    ball="itf_type2",
+    ball=DEFAULT_BALL,
     aero=None,
-    air_density=1.225,
-    spin_decay_rate=0.0,
-    wind=(0.0, 0.0, 0.0),
-    singles=True,
+    air_density=None,
+    conditions=None,
+    air=DEFAULT_AIR,
+    surface=DEFAULT_SURFACE,
 ):
-    """Fly one fed ball to its first bounce and report the net crossing and the landing.
+    """Feed one ball and play it through the whole chain.
 
     Parameters
     ----------
-    origin : (3,) release point of the ball centre [m].
-    speed : launch speed [m/s]; elevation, azimuth : [rad]; spin : [rad/s] about ``spin_axis``
-        (court frame, normalised here; the default +y is topspin for a ball toward +x).
-    ball : ball preset or TOML file (read by :func:`rallyarc.domain.load_ball`).
-    aero : name of an aerodynamic model instead of the ball's own; air_density : [kg/m^3].
+    origin : (3,) release point of the ball centre [m], court frame.
+    speed : launch speed [m/s]; elevation, azimuth : [rad] (azimuth from +x toward +y);
+        spin : [rad/s] about ``spin_axis`` (court frame, normalised here; the default +y is
+        topspin for a ball toward +x).
+    ball, air, surface : presets, files or objects (see :func:`feed_conditions`);
+        aero : an aerodynamic model instead of the ball's own; air_density : [kg/m^3] instead
+        of the air's. ``conditions`` (a :class:`rallyarc.domain.Conditions`) replaces them all.
 
     Returns
     -------
-    dict
-        ``inputs`` (every parameter used, SI), ``net_crossing`` (or None) and ``landing``.
+    Feed
+        Its :meth:`Feed.record` is the JSON of ``rallyarc feed --json``.
     """
-    params = flight_params(domain.load_ball(ball), air_density, aero, spin_decay_rate, wind)
-    axis = np.asarray(spin_axis, dtype=float)
+    if conditions is None:
+        conditions = feed_conditions(ball, air, surface, air_density, aero)
+    given = conditions
+    origin = np.asarray(origin, float)
+    axis = np.asarray(spin_axis, float)
     axis = axis / np.linalg.norm(axis)
-    v0 = launch_velocity(speed, elevation, azimuth)
-    direction = 1 if v0[0, 0] >= 0 else -1
-    events = [
-        PlaneEvent("net", (1.0, 0.0, 0.0), 0.0, terminal=False, direction=direction),
-        ground_contact(params.radius),
-    ]
-    res = fly(np.asarray(origin, float)[None], v0, (spin * axis)[None], params, events, t_max=20.0)
-    net = res.events["net"]
-    net_out = None
-    if net.occurred[0]:
-        y, z = net.position[0, 1], net.position[0, 2]
-        net_out = {
-            "height_m": float(z),
-            "clearance_m": float(z - params.radius - net_height(y, singles)),
-            "y_m": float(y),
-            "t_s": float(net.t[0]),
-        }
-    vel = res.velocity[0]
-    landing = None
-    if res.ended_by("ground")[0]:
-        horizontal = float(np.hypot(vel[0], vel[1]))
-        landing = {
-            "x_m": float(res.position[0, 0]),
-            "y_m": float(res.position[0, 1]),
-            "t_s": float(res.t[0]),
-            "speed_mps": float(np.linalg.norm(vel)),
-            "angle_deg": float(np.degrees(np.arctan2(-vel[2], horizontal))),
-            "velocity_mps": [float(c) for c in vel],
-            "spin_rads": [float(c) for c in res.spin[0]],
-        }
-    inputs = {
-        "origin_m": [float(c) for c in origin],
+    v0 = kinematics.velocity(speed, elevation, azimuth)[0]
+    w0 = spin * axis
+    mirrored = bool(v0[0] < 0)
+    turn = np.array([-1.0, -1.0, 1.0]) if mirrored else np.ones(3)
+    if mirrored:  # the wind turns with the court
+        wind = tuple(float(v) for v in np.asarray(conditions.air.wind) * turn)
+        conditions = replace(conditions, air=replace(conditions.air, wind=wind))
+    start = BallState.of(origin * turn, v0 * turn, w0 * turn)
+    result = launch(start, conditions, labels=["feed"])
+    return Feed(result, mirrored, _inputs(origin, speed, elevation, azimuth, spin, axis, given))
+
+
+def _inputs(origin, speed, elevation, azimuth, spin, axis, c):
+    params = c.flight_params()
+    return {
+        "label": "feed",
+        "origin_m": [float(v) for v in origin],
         "speed_mps": float(speed),
-        "elevation_rad": float(elevation),
-        "azimuth_rad": float(azimuth),
-        "spin_rads": float(spin),
-        "spin_axis": [float(c) for c in axis],
-        "ball": ball,
-        "mass_kg": params.mass,
-        "radius_m": params.radius,
-        "air_density_kgm3": float(air_density),
-        "aero_model": params.aero.name,
-        "spin_decay_rate_per_s": spin_decay_rate,
-        "wind_mps": list(params.wind),
-        "gravity_mps2": params.gravity,
+        "speed_kmh": float(speed * KMH_PER_MPS),
+        "elevation_deg": float(np.degrees(elevation)),
+        "azimuth_deg": float(np.degrees(azimuth)),
+        "spin_rpm": float(spin / RPM),
+        "spin_axis": [float(v) for v in axis],
+        "ball": c.ball.name,
+        "mass_kg": c.ball.mass,
+        "radius_m": c.ball.radius,
+        "aero_model": c.ball.aero_model,
+        "air": c.air.name,
+        "air_density_kgm3": float(c.air.density),
+        "wind_mps": [float(v) for v in c.air.wind],
+        "spin_decay_rate_per_s": float(params.spin_decay_rate),
+        "gravity_mps2": float(params.gravity),
+        "surface": c.surface_name,
+        "receiver_plane_m": c.receiver_plane_m,
+        "singles": c.singles,
     }
-    return {"inputs": inputs, "net_crossing": net_out, "landing": landing}

@@ -61,7 +61,8 @@ def drill_sheet(drill, sheet, paths, safety, units="kmh"):
     ]
     notes.append(
         "at player: ball height at the player's contact plane; time: from release to that plane;"
-        " - : the ball bounces twice before it gets there"
+        " - : the ball bounces twice before it gets there; call: where the ball landed"
+        " (in, net, long, wide, out)"
     )
     fig.text(0.06, 0.36, "\n".join(notes), fontsize=8, va="top", wrap=True)
     fig.text(
@@ -145,6 +146,7 @@ def _settings_table(ax, sheet, units):
         "apex\n[m]",
         "at player\n[m]",
         "time\n[s]",
+        "call",
     ]
     cells = [
         [
@@ -158,6 +160,7 @@ def _settings_table(ax, sheet, units):
             f(r.bounce_apex_m, "{:.2f}"),
             f(r.height_at_player_m, "{:.2f}"),
             f(r.time_to_player_s, "{:.2f}"),
+            r.outcome,
         ]
         for r in sheet.itertuples()
     ]

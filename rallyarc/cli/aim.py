@@ -196,12 +196,26 @@ def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, ball,
         f"set:     speed {data['speed_kmh']:.1f} km/h ({data['speed_mph']:.1f} mph), elevation "
         f"{data['elevation_deg']:.1f} deg, aim {data['aim_left_deg']:+.1f} deg (+ left), spin "
         f"{data['spin_rpm']:+.0f} rpm",
-        f"lands:   x {land[0]:+.2f}, y {land[1]:+.2f} ({data['miss_m'] * 100:.1f} cm from target)",
+        f"lands:   x {land[0]:+.2f}, y {land[1]:+.2f} ({data['miss_m'] * 100:.1f} cm from target), "
+        f"{data['outcome']}",
+        _player_line(data),
         SAFETY,
     ]
     emit(data, as_json, lines)
     if not data["reachable"]:
         sys.exit(1)
+
+
+def _player_line(data):
+    """The height the fed ball reaches at the player's contact plane, and when."""
+    height = data["height_at_player_m"]
+    if height is None:
+        return "player:  the ball bounces twice before the player's contact plane"
+    when = "before the bounce" if data["player_before_bounce"] else "after the bounce"
+    return (
+        f"player:  {height:.2f} m at the player's contact plane ({when}), "
+        f"{data['time_to_player_s']:.2f} s after release"
+    )
 
 
 def _feed_record(machine, position, target, res):
@@ -226,6 +240,8 @@ def _feed_record(machine, position, target, res):
         "bounce_apex_m": float(m["bounce_apex_m"][0]),
         "height_at_player_m": float(m["receiver_height_m"][0]),
         "time_to_player_s": float(m["receiver_t_s"][0]),
+        "player_before_bounce": bool(m["receiver_before_bounce"][0]),
+        "outcome": str(m["outcome"][0]),
     }
     return {
         k: (None if isinstance(v, float) and not math.isfinite(v) else v) for k, v in data.items()

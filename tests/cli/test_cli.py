@@ -57,6 +57,42 @@ def test_feed_that_falls_short_has_no_net_crossing():
     assert data["net_crossing"] is None
 
 
+def test_fed_ball_into_the_net_stops_there():
+    # 90 km/h at 2 degrees with no spin from hip height meets the net: outcome net, no
+    # landing and no bounce, and the text says so with the safety caution.
+    data = run_json("feed", "--elevation", "2", "--spin", "0", "--speed", "90km/h")
+    assert data["net_crossing"]["clearance_m"] < 0
+    assert data["outcome"] == "net"
+    assert data["landing"] is None and data["bounce"] is None
+    text = run("feed", "--elevation", "2", "--spin", "0", "--speed", "90km/h").output
+    assert "INTO THE NET" in text and "outcome:  net" in text
+    assert "Safety" in text and "line of fire" in text
+
+
+def test_fed_ball_has_the_shot_blocks_and_a_line_call():
+    data = run_json("feed", "--from", "-11,0,1", "--speed", "90km/h", "--elevation", "8")
+    shot = run_json("shot")
+    assert set(data) == set(shot)
+    for block in ("impact", "net_crossing", "landing", "bounce", "flight", "receiver"):
+        assert set(data[block]) <= set(shot[block]), block
+    assert data["outcome"] == "in"
+    assert data["bounce"]["apex_m"] > data["inputs"]["radius_m"]
+    assert data["inputs"]["air_density_kgm3"] == pytest.approx(shot["inputs"]["air_density_kgm3"])
+
+
+def test_feed_from_the_far_end_is_the_near_feed_turned_about_z():
+    near = run_json("feed", "--from", "-11,1,1", "--speed", "80km/h", "--elevation", "12")
+    far = run_json(
+        "feed", "--from", "11,-1,1", "--speed", "80km/h", "--elevation", "12", "--azimuth",
+        "180", "--spin-axis", "0,-1,0",
+    )  # fmt: skip
+    assert far["outcome"] == near["outcome"] == "in"
+    assert far["landing"]["x_m"] == pytest.approx(-near["landing"]["x_m"], abs=1e-6)
+    assert far["landing"]["y_m"] == pytest.approx(-near["landing"]["y_m"], abs=1e-6)
+    assert far["bounce"]["apex_m"] == pytest.approx(near["bounce"]["apex_m"], abs=1e-6)
+    assert far["impact"]["azimuth_deg"] == pytest.approx(180.0)
+
+
 def test_bounce_pace_test_geometry():
     # REFERENCES.md worked value (sliding at 30 m/s, 16 deg, mu 0.6, e 0.8): vx 19.907, vz 6.615
     data = run_json(
@@ -163,3 +199,12 @@ def test_bad_surface_file_names_file_and_key(tmp_path):
     assert "restitutoin" in run("surface", "--preset", str(bad)).output
     bad.write_text('name = "x\n')
     assert "TOML syntax" in run("surface", "--preset", str(bad)).output
+
+
+def test_aim_feed_reports_the_height_and_outcome_it_achieved():
+    args = ["aim", "feed", "--at", "11,0", "--target", "-9,2", "--spin", "1500", "--height", "1.2"]
+    text = run(*args).output
+    assert "1.20 m at the player's contact plane (after the bounce)" in text
+    assert "cm from target), in" in text
+    data = run_json(*args)
+    assert data["outcome"] == "in" and data["player_before_bounce"] is False

@@ -94,7 +94,7 @@ def test_feed_round_trip_against_the_feed_module():
             spin_axis=axis,
             air_density=cond.air.density,
         )
-        land = out["landing"]
+        land = out.record()["landing"]
         assert math.hypot(land["x_m"] - tx[i], land["y_m"] - ty[i]) < 0.05
     assert res.result.metrics["receiver_height_m"] == pytest.approx(1.2, abs=0.05)
 
