@@ -54,6 +54,24 @@ class Key:
         return f"a number from {self.low:g} to {self.high:g}"
 
 
+#: Highest ball centre a player meets with the racket [m]. A tall player (2.1 m) reaches about
+#: 1.33 times body height with the arm up (2.8 m); the racket adds about 0.55 m to the middle of
+#: the strings and a serve's jump about 0.4 m: about 3.75 m, rounded up to 4 m (common practice;
+#: no published bound).
+HIGHEST_CONTACT_M = 4.0
+#: Contacts above this only tall players reach, jumping; the command line warns [m].
+UNUSUAL_CONTACT_M = 3.0
+#: The smallest ball radius a ball file may give (half the least ``diameter_m``) [m]: a ball
+#: centre below it is under the court whatever the ball.
+SMALLEST_RADIUS_M = 0.02
+
+
+def reach_m(height_m):
+    """Highest contact [m] a player ``height_m`` tall reaches: 1.33 x height with the arm up,
+    0.55 m of racket and a 0.4 m jump (common practice, as :data:`HIGHEST_CONTACT_M`)."""
+    return 1.33 * height_m + 0.95
+
+
 #: Aerodynamic model names a ball preset may give: the keys of the model registry.
 AERO_CHOICES = tuple(AERO_MODELS)
 
@@ -396,8 +414,57 @@ def validate(kind, data, where):
                 )
     if kind == "rackets" and out["balance_m"] >= out["length_m"]:
         raise InputError(f"{where}: key 'balance_m' must be less than length_m")
+    _cross_check(kind, out, where)
     out["where"] = where
     return out
+
+
+def _cross_check(kind, out, where):
+    """Keys that are each in range but must fit together: a racket's mass, balance and
+    swingweight; contact heights within reach; a toss or incoming ball above the court."""
+    if kind == "rackets":
+        _racket_inertia(out, where)
+    if kind == "strokes" and "toss" in out:
+        _height(out["toss"]["contact_m"][2], "toss.contact_m", where)
+    if kind == "scenarios" and "incoming" in out:
+        _height(out["incoming"]["position_m"][2], "incoming.position_m", where)
+    if kind == "patterns":
+        for end in ("near", "far"):
+            p = out[end]
+            if p["highest_contact_m"] > reach_m(p["height_m"]):
+                raise InputError(
+                    f"{where}: keys '{end}.highest_contact_m' and '{end}.height_m' do not fit: a "
+                    f"player {p['height_m']:g} m tall reaches at most "
+                    f"{reach_m(p['height_m']):.2f} m (1.33 x height + 0.95 m), got "
+                    f"{p['highest_contact_m']:g} m"
+                )
+
+
+def _racket_inertia(out, where):
+    """The swingweight (about an axis 0.10 m from the butt) must exceed what the mass alone
+    gives at the balance point, mass x (balance - 0.10)^2, or the racket's moment of inertia
+    about its centre of mass would not be positive."""
+    m, b, sw = out["mass_kg"], out["balance_m"], out["swingweight_kgm2"]
+    least = m * (b - 0.10) ** 2
+    if sw > least:
+        return
+    half = math.sqrt(sw / m)
+    raise InputError(
+        f"{where}: keys 'swingweight_kgm2', 'mass_kg' and 'balance_m' do not fit: with mass "
+        f"{m:g} kg and balance {b:g} m the swingweight must exceed {least:.4g} kg m^2 "
+        f"(mass x (balance - 0.10)^2), got {sw:g}; or give balance_m from "
+        f"{max(0.10 - half, 0.0):.3f} to {0.10 + half:.3f} m, or mass_kg below "
+        f"{sw / (b - 0.10) ** 2:.3g} kg"
+    )
+
+
+def _height(z, key, where):
+    """A ball centre's height: above the court and within a player's reach."""
+    if not SMALLEST_RADIUS_M <= z <= HIGHEST_CONTACT_M:
+        raise InputError(
+            f"{where}: key {key!r}: the height Z must be from {SMALLEST_RADIUS_M:g} m (the ball "
+            f"on the court) to {HIGHEST_CONTACT_M:g} m (the highest a player reaches), got {z:g}"
+        )
 
 
 def referenced(data, key, loader, where=None, name=None):

@@ -88,6 +88,64 @@ def direction(text, option, low=-1e3, high=1e3):
         raise InputError(f"{option}: {reason}, got {text!r}") from None
 
 
+def warn(message):
+    """One line on stderr for a value that is allowed but unusual."""
+    click.echo(f"rallyarc: warning: {message}", err=True)
+
+
+def check_ball_point(point, label, radius, singles=True):
+    """Refuse a ball centre ``point`` (X, Y, Z) [m] below the court, beyond a player's reach
+    (:data:`rallyarc.config.HIGHEST_CONTACT_M`) or inside the net; warn in one line above
+    :data:`rallyarc.config.UNUSUAL_CONTACT_M`. ``label`` names the option or file key."""
+    from rallyarc import config, court
+
+    x, y, z = (float(c) for c in point)
+    top = config.HIGHEST_CONTACT_M
+    if not radius <= z <= top:
+        where = "below the court" if z < radius else "beyond a player's reach"
+        raise InputError(
+            f"{label}: the height Z must be from the ball's radius {radius:.4g} m (resting on the "
+            f"court) to {top:g} m (the highest a player reaches), got {z:g} m, {where}"
+        )
+    net = float(court.net_height(y, singles))
+    if abs(x) < radius and z < net + radius:
+        raise InputError(
+            f"{label}: a ball at X {x:g} m, Z {z:g} m is inside the net; X must be at least "
+            f"{radius:.3g} m from the net (either side) or Z above {net + radius:.3f} m"
+        )
+    if z > config.UNUSUAL_CONTACT_M:
+        warn(
+            f"{label}: a height of {z:g} m is above {config.UNUSUAL_CONTACT_M:g} m, which only "
+            "tall players reach, jumping"
+        )
+
+
+def check_scenario(sc, option):
+    """The scenario's incoming ball and its serves' contact points, checked against the court,
+    the net and a player's reach with the scenario's own ball."""
+    r = sc.conditions.ball.radius
+    if sc.incoming:
+        check_ball_point(
+            sc.incoming["position_m"], f"{option}: {sc.where}: key 'incoming.position_m'", r
+        )
+    for st in sc.strokes:
+        check_stroke_fits(st, sc.conditions, f"{option}: stroke {st.name!r}")
+        if st.toss is not None:
+            check_ball_point(
+                st.toss.contact, f"{option}: stroke {st.name!r}: key 'toss.contact_m'", r
+            )
+
+
+def check_stroke_fits(stroke, conditions, label):
+    """A stroke's impact point must lie on the racket it is played with."""
+    length = conditions.racket.racket.length_m
+    if not stroke.impact_from_butt < length:
+        raise InputError(
+            f"{label}: key 'impact_from_butt_m' must be less than the racket's length_m "
+            f"{length:g} m ({conditions.racket.name}), got {stroke.impact_from_butt:g} m"
+        )
+
+
 def court_point(text, option="--target"):
     """A point ``X,Y`` on the court [m]."""
     parts = str(text).split(",")
@@ -194,7 +252,9 @@ def scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, opt
         changes["surface_name"] = surface_name
     if receiver_plane is not None:
         changes["receiver_plane_m"] = units.number(receiver_plane, "--receiver-plane", 0.0, 10.0)
-    return replace(sc, conditions=replace(sc.conditions, **changes)) if changes else sc
+    sc = replace(sc, conditions=replace(sc.conditions, **changes)) if changes else sc
+    check_scenario(sc, option)
+    return sc
 
 
 def ball_state(incoming):

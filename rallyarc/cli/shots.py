@@ -9,7 +9,9 @@ import click
 from rallyarc import units
 from rallyarc.cli.options import (
     SCENARIO_HELP,
+    check_ball_point,
     check_file,
+    check_stroke_fits,
     condition_options,
     dt_option,
     emit,
@@ -93,8 +95,12 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
     step = time_step(dt)
     check_file(csv_path, force)
     st, incoming = _incoming(sc, st, contact, incoming_speed, incoming_spin)
-    if incoming is None and st.toss.contact[2] < sc.conditions.ball.radius:
-        raise InputError("--contact: the contact height Z must be above the ball's radius")
+    check_stroke_fits(st, sc.conditions, f"--stroke {stroke}")
+    r = sc.conditions.ball.radius
+    if incoming is None:
+        check_ball_point(st.toss.contact, "--contact" if contact else f"--stroke {stroke}", r)
+    elif contact is not None:
+        check_ball_point(incoming.position[0], "--contact", r)
     result = play([st], _played_conditions(sc, friction_only), incoming)
     if csv_path is not None:
         export.write_frame(csv_path, result.trajectory_frame(step))
