@@ -61,7 +61,7 @@ def drill_sheet(drill, sheet, paths, safety, units="kmh"):
     ]
     notes.append(
         "at player: ball height at the player's contact plane; time: from release to that plane;"
-        " - : the ball bounces twice before it gets there; call: where the ball landed"
+        " - : the ball bounces twice before it gets there;\ncall: where the ball landed"
         " (in, net, long, wide, out)"
     )
     fig.text(0.06, 0.36, "\n".join(notes), fontsize=8, va="top", wrap=True)

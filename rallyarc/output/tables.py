@@ -61,6 +61,7 @@ SECTIONS = (
         (
             (("bounce_speed_in_mps", "bounce_speed_out_mps"), "km/h", "{:.0f}"),
             (("bounce_angle_in_deg", "bounce_angle_out_deg"), None, "{:.1f}"),
+            ("bounce_heading_change_deg", None, "{:+.1f}"),
             (("bounce_spin_in_rpm", "bounce_spin_out_rpm"), None, "{:+.0f}"),
             ("bounce_regime", None, "{}"),
             ("bounce_apex_m", None, "{:.2f}"),

@@ -87,6 +87,7 @@ _SHORT = {
     "bounce_spin_in_rpm": "topspin in",
     "bounce_spin_out_rpm": "topspin out",
     "bounce_apex_m": "apex after bounce",
+    "bounce_heading_change_deg": "sideways jump",
     "receiver_height_m": "at receiver plane",
 }
 
@@ -299,13 +300,21 @@ _ALL = (
         "ball speed after the bounce",
         "ball speed leaving the court",
     ),
-    _m("bounce", "angle_out_deg", "deg", "rebound angle", "rebound angle above the horizontal"),
     _m(
         "bounce",
-        "kick_deg",
+        "angle_out_deg",
         "deg",
-        "kick: rise minus fall angle",
-        "rebound angle minus arrival angle at the bounce",
+        "kick: rebound angle",
+        "rebound angle above the horizontal: how steeply the ball kicks up after the bounce "
+        "(with bounce_apex_m, how high)",
+    ),
+    _m(
+        "bounce",
+        "heading_change_deg",
+        "deg",
+        "sideways jump at the bounce",
+        "change of the ball's horizontal heading at the bounce, + to the left of its travel "
+        "(a serve's sideways kick)",
     ),
     _m("bounce", "spin_in_rpm", "rpm", "topspin into the bounce", "topspin arriving at the court"),
     _m(
@@ -333,7 +342,7 @@ _ALL = (
         "bounce",
         "apex_m",
         "m",
-        "bounce apex height",
+        "kick: bounce apex height",
         "highest point of the ball's centre after the bounce "
         "(free flight, even if beyond the receiver's plane)",
     ),

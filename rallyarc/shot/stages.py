@@ -182,7 +182,7 @@ _BOUNCE_NUMBERS = (
     "angle_in_deg",
     "speed_out_mps",
     "angle_out_deg",
-    "kick_deg",
+    "heading_change_deg",
     "spin_in_rpm",
     "spin_out_rpm",
     "sidespin_in_rpm",
@@ -206,6 +206,13 @@ def no_bounce(n, bounced):
     return m
 
 
+def _heading_change(v_in, v_out):
+    """Change of the horizontal heading at the bounce [deg], + toward the left of the ball's
+    travel (the sideways jump of a serve's sidespin)."""
+    turn = np.arctan2(v_out[:, 1], v_out[:, 0]) - np.arctan2(v_in[:, 1], v_in[:, 0])
+    return np.degrees((turn + np.pi) % (2.0 * np.pi) - np.pi)
+
+
 def bounce(first, idx, conditions, m):
     """The bounce of the balls ``idx`` (those past the net) on the court, under the same
     slide-or-grip rule as the racket; fills their bounce metrics in ``m``. Returns the balls'
@@ -225,7 +232,7 @@ def bounce(first, idx, conditions, m):
         "angle_in_deg": angle_in,
         "speed_out_mps": np.linalg.norm(res.velocity, axis=1),
         "angle_out_deg": angle_out,
-        "kick_deg": angle_out - angle_in,
+        "heading_change_deg": _heading_change(vin, res.velocity),
         "spin_in_rpm": top_in / RPM,
         "spin_out_rpm": top_out / RPM,
         "sidespin_in_rpm": side_in / RPM,
