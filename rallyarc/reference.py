@@ -15,6 +15,8 @@ Python, Nature Methods 17:261-272, doi:10.1038/s41592-019-0686-2 (``scipy.integr
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from scipy.integrate import solve_ivp
 
@@ -29,6 +31,9 @@ from rallyarc.shot import T_MAX, judge_landing
 REFERENCE = {"method": "DOP853", "rtol": 1e-10, "atol": 1e-12}
 #: The per-shot baseline: solve_ivp's default method at the batch engine's tolerance.
 BASELINE = {"method": "RK45", "rtol": 1e-6, "atol": 1e-6}
+#: The same baseline with a plain-float right-hand side, as a careful per-shot script is written
+#: (the fair per-shot comparison for the batch engine's throughput).
+BASELINE_PLAIN = {**BASELINE, "rhs": "plain"}
 
 
 def _event(fun, terminal=False, direction=0):
@@ -36,16 +41,81 @@ def _event(fun, terminal=False, direction=0):
     return fun
 
 
-def _fly_one(x0, v0, w0, t0, params, events, method, rtol, atol):
-    """One ball from ``t0`` until the ground (or ``T_MAX``); returns the solve_ivp solution."""
+def _numpy_rhs(w0, t0, params):
+    """The right-hand side through the project's force function (numpy, one ball)."""
     k = params.spin_decay_rate
 
     def rhs(t, y):
         spin = w0 * np.exp(-k * (t - t0))
         return np.concatenate([y[3:], acceleration(y[3:][None], spin[None], params)[0]])
 
+    return rhs
+
+
+def _plain_coefficients(aero):
+    """``C_D(S)`` and ``C_L(S) / S`` as plain-float functions of the registered models (the
+    formulas of :mod:`rallyarc.flight.aero`); any other model through its own methods."""
+    name = getattr(aero, "name", "")
+    if name == "cross_lindsey2014":
+        cd = float(aero.drag_coefficient)
+        return (lambda s: cd), (lambda s: 1.0 / (2.022 * s + 0.981))
+    if name == "stepanek1988":
+        dc = float(aero.drag_constant)
+
+        def drag(s):
+            u = s * s * math.sqrt(s)
+            return 0.508 + (u / (dc * u + 4.196)) ** 0.4
+
+        return drag, (lambda s: 1.0 / (2.022 * s + 0.981))
+    if name == "constant":
+        cd, cl = float(aero.drag_coefficient), float(aero.lift_coefficient)
+        return (lambda s: cd), (lambda s: cl / max(s, 1e-9))
+    return (lambda s: float(aero.drag(s))), (lambda s: float(aero.lift_slope(s)))
+
+
+def _plain_rhs(w0, t0, params):
+    """The same forces written with plain floats for one ball, as a careful per-shot script
+    would: gravity, drag ``-k C_D |u| u`` and lift ``k r (C_L/S) (w x u)`` with ``u`` the
+    velocity through the air and ``k = rho A / (2 m)`` (see
+    :func:`rallyarc.flight.forces.aerodynamic_acceleration`)."""
+    decay = params.spin_decay_rate
+    kd, r, g = params.drag_factor, params.radius, params.gravity
+    wx0, wy0, wz0 = (float(c) for c in w0)
+    ax_wind, ay_wind, az_wind = (float(c) for c in params.wind)
+    drag, slope = _plain_coefficients(params.aero)
+
+    def rhs(t, y):
+        f = math.exp(-decay * (t - t0)) if decay else 1.0
+        wx, wy, wz = wx0 * f, wy0 * f, wz0 * f
+        ux, uy, uz = y[3] - ax_wind, y[4] - ay_wind, y[5] - az_wind
+        speed = math.sqrt(ux * ux + uy * uy + uz * uz)
+        cx, cy, cz = wy * uz - wz * uy, wz * ux - wx * uz, wx * uy - wy * ux
+        if speed > 0.0:
+            s = r * math.sqrt(cx * cx + cy * cy + cz * cz) / (speed * speed)
+            cd_v = kd * drag(s) * speed
+            lift = kd * r * slope(s)
+        else:
+            cd_v = lift = 0.0
+        return [
+            y[3],
+            y[4],
+            y[5],
+            -cd_v * ux + lift * cx,
+            -cd_v * uy + lift * cy,
+            -g - cd_v * uz + lift * cz,
+        ]
+
+    return rhs
+
+
+#: Right-hand sides of the per-shot flights by name.
+RHS = {"numpy": _numpy_rhs, "plain": _plain_rhs}
+
+
+def _fly_one(x0, v0, w0, t0, params, events, method, rtol, atol, rhs="numpy"):
+    """One ball from ``t0`` until the ground (or ``T_MAX``); returns the solve_ivp solution."""
     return solve_ivp(
-        rhs,
+        RHS[rhs](w0, t0, params),
         (t0, t0 + T_MAX),
         np.concatenate([x0, v0]),
         method=method,
@@ -193,7 +263,8 @@ def _after_bounce(second, receiver_open, radius, out):
 
 
 def _solver(opts):
-    return {"method": opts["method"], "rtol": opts["rtol"], "atol": opts["atol"]}
+    keys = ("method", "rtol", "atol", "rhs")
+    return {k: opts[k] for k in keys if k in opts}
 
 
 def play_shots(incoming, swing, conditions, serve=None, **solver):
