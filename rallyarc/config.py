@@ -197,6 +197,34 @@ SCHEMAS = {
         "strokes": Key("names"),
         "incoming": Key("table", table=_INCOMING, required=False),
     },
+    # studies (rallyarc.study): a base stroke or pattern pair and parameters over ranges; names
+    # and ranges of the parameters are checked against the study kind in rallyarc.study.spec
+    "studies": {
+        "name": Key(str),
+        "source": Key(str),
+        "description": Key(str),
+        "kind": Key(str, choices=("shots", "rallies")),
+        "scenario": Key(str, required=False),
+        "stroke": Key(str, required=False),
+        "patterns": Key(str, required=False),
+        "design": Key(str, choices=("grid", "random", "latin")),
+        "samples": Key(int, 1, 1e9, required=False),
+        "rallies": Key(int, 1, 1e7, required=False),
+        "max_shots": Key(int, 1, 200, required=False),
+        "seed": Key(int, 0, 2**63 - 1),
+        "chunk": Key(int, 1, 1e6, required=False),
+        "scheduler": Key(str, required=False),
+        "parameters": Key(
+            "tables",
+            table={
+                "name": Key(str),
+                "low": Key(float, -1e4, 1e4),
+                "high": Key(float, -1e4, 1e4),
+                "steps": Key(int, 1, 10000, required=False),
+                "distribution": Key(str, choices=("uniform", "normal"), required=False),
+            },
+        ),
+    },
     # rally patterns (rallyarc.rally): two players, each with serves, a repertoire of shots and
     # execution scatter; targets are in the hitter's own frame (hitting toward +x)
     "patterns": {
