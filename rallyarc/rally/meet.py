@@ -2,15 +2,20 @@
 
 On the ball's path after its bounce and before a second bounce, a point is within reach when
 its height lies between the player's lowest and highest contact, it is no deeper than the
-player's deepest position behind the baseline, and its horizontal distance from the player's
-home position is at most ``reach_m`` plus the run ``run_speed_mps * (t - reaction_s)`` from the
-opponent's contact. The player aims to meet the ball at the point their timing names: on the
-rise or on the drop where the ball passes the middle of their preferred contact-height range
-(at the apex when the bounce does not rise that high), or at the apex. When that point is out of
+player's deepest position behind the baseline, and its horizontal distance from where the
+player stands when the opponent strikes (``start``; home when not given) is at most ``reach_m``
+plus the run ``run_speed_mps * (t - reaction_s)`` from the opponent's contact. The player aims
+to meet the ball at the point their timing names: on the rise or on the drop where the ball
+passes the middle of their preferred contact-height range (at the apex when the bounce does
+not rise that high), or at the apex. When that point is out of
 reach, they meet the ball at the point within reach nearest to it in time (a heavy high ball
 the player cannot back away from is met above the preferred range). No point within reach ends
-the rally: a winner (an ace for a serve). The player is back at home for every shot (no
-recovery model).
+the rally: a winner (an ace for a serve).
+
+At the contact the player has run only as far as the ball needs: to within ``reach_m`` of it
+(:attr:`Contact.body`). The share of the run the time allowed that they needed is the
+contact's ``stretch`` (0: the ball came within reach of where they stood; 1: the full run).
+Where the player goes after their own shot is :func:`recover`.
 
 Everything here is in the hitter's chain frame, where the receiver stands at the far end.
 """
@@ -34,7 +39,8 @@ class Contact:
     """Where receivers meet N balls that landed in, in the hitter's chain frame: ``found``
     (N,) bool, ``t`` [s] after the hitter's contact, the ball's position [m], velocity [m/s]
     and spin [rad/s] there ``(N, 3)``, the timing's target time ``target_t`` [s], ``reason``
-    (why no point was within reach) and ``phase`` (rise, apex or drop)."""
+    (why no point was within reach), ``phase`` (rise, apex or drop), the receiver's ``body``
+    position (x, y) [m] at the contact and the ``stretch`` of the run (see the module)."""
 
     found: np.ndarray
     t: np.ndarray
@@ -44,6 +50,8 @@ class Contact:
     target_t: np.ndarray
     reason: np.ndarray
     phase: np.ndarray
+    body: np.ndarray | None = None
+    stretch: np.ndarray | None = None
 
 
 def _bisect(f, a, b, iterations=30):
@@ -63,7 +71,7 @@ class _Path:
     """The n balls' paths from their bounce (``t_b`` [s]) to a second bounce (``t_e``), columns
     ``col`` of the flight after the bounce, and the receiver's reach along them."""
 
-    def __init__(self, flight, col, t_b, receiver):
+    def __init__(self, flight, col, t_b, receiver, start=None):
         self.trajectory = flight.trajectory
         self.col = col
         self.t_b = t_b
@@ -71,7 +79,8 @@ class _Path:
         self.n = col.size
         self.receiver = receiver
         # the receiver in the hitter's frame: home at (L/2 + behind, -y) (180 degree rotation)
-        self.home = np.array([court.HALF_LENGTH + receiver.home_behind, -receiver.home_y])
+        home = np.array([court.HALF_LENGTH + receiver.home_behind, -receiver.home_y])
+        self.start = np.tile(home, (self.n, 1)) if start is None else np.asarray(start, float)
         self.deepest = court.HALF_LENGTH + receiver.deepest_behind
 
     def sample(self, times):
@@ -83,11 +92,11 @@ class _Path:
 
     def feasible_parts(self, times, pos):
         """Within the height range after the bounce, not too deep, and within the run."""
-        r, t_b, home = self.receiver, self.t_b, self.home
+        r, t_b, start = self.receiver, self.t_b, self.start
         z = pos[..., 2]
         height = (z >= r.lowest) & (z <= r.highest)
         depth = pos[..., 0] <= self.deepest
-        dist = np.hypot(pos[..., 0] - home[0], pos[..., 1] - home[1])
+        dist = np.hypot(pos[..., 0] - start[:, 0], pos[..., 1] - start[:, 1])
         move = dist <= r.reach + r.run_speed * np.maximum(0.0, times - r.reaction)
         after_bounce = times > t_b[None, :] if times.ndim == 2 else times > t_b
         return height & after_bounce, depth, move
@@ -163,9 +172,32 @@ def _unreached_reason(path, grid, grid_pos, found):
     return reason.astype(str)
 
 
-def meet(result, balls, receiver):
+def _run(path, t_c, pos):
+    """The receiver's body position (n, 2) at contact times ``t_c`` and the stretch (n,)."""
+    r, start = path.receiver, path.start
+    gap = pos[:, :2] - start
+    dist = np.hypot(gap[:, 0], gap[:, 1])
+    needed = np.maximum(0.0, dist - r.reach)
+    allowed = r.run_speed * np.maximum(0.0, t_c - r.reaction)
+    stretch = np.where(needed > 0, needed / np.where(allowed > 0, allowed, needed + 1.0), 0.0)
+    body = start + gap * (needed / np.where(dist > 0, dist, 1.0))[:, None]
+    return body, np.minimum(stretch, 1.0)
+
+
+def recover(body, home, run_speed, time):
+    """Where a player who stood at ``body`` (n, 2) [m] at their contact is after ``time`` (n,)
+    [s] of running toward ``home`` (2,) at ``run_speed`` [m/s]: the recovery between shots,
+    cut short when the opponent strikes (every position in the player's own frame)."""
+    gap = np.asarray(home, float)[None, :] - body
+    dist = np.hypot(gap[:, 0], gap[:, 1])
+    step = np.minimum(dist, run_speed * np.maximum(0.0, time))
+    return body + gap * (step / np.where(dist > 0, dist, 1.0))[:, None]
+
+
+def meet(result, balls, receiver, start=None):
     """Find where ``receiver`` meets the balls ``balls`` (indices of shots that landed in) of
-    one chain result ``result`` (recorded), all in the hitter's chain frame.
+    one chain result ``result`` (recorded), all in the hitter's chain frame; ``start`` (n, 2)
+    [m] is where the receiver stands when the hitter strikes (home when not given).
 
     Returns a :class:`Contact` for those balls.
     """
@@ -176,6 +208,8 @@ def meet(result, balls, receiver):
             *(np.zeros((0,) + s) for s in ((), (3,), (3,), (3,), ())),
             np.array([], str),
             np.array([], str),
+            np.zeros((0, 2)),
+            np.zeros(0),
         )
     if result.after_bounce is None:
         raise ValueError("every ball must have bounced")
@@ -184,7 +218,7 @@ def meet(result, balls, receiver):
         col = result.after_bounce.columns(balls)
     except ValueError:
         raise ValueError("every ball must have bounced") from None
-    path = _Path(after, col, result.metrics["bounce_t_s"][balls], receiver)
+    path = _Path(after, col, result.metrics["bounce_t_s"][balls], receiver, start)
     target, t_apex = _target_time(path, after.events["apex"], result.conditions.ball.radius)
     t_c, found, grid, grid_pos = _nearest_within_reach(path, target)
     pos, vel, spin = (a[0] for a in path.sample(t_c[None, :]))
@@ -192,4 +226,5 @@ def meet(result, balls, receiver):
     phase = np.where(
         np.abs(t_c - t_apex) <= APEX_WINDOW_S, "apex", np.where(t_c < t_apex, "rise", "drop")
     )
-    return Contact(found, t_c, pos, vel, spin, target, reason, phase)
+    body, stretch = _run(path, t_c, pos)
+    return Contact(found, t_c, pos, vel, spin, target, reason, phase, body, stretch)

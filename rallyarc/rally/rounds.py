@@ -12,10 +12,18 @@ One round, in named steps (each over every live rally at once, per hitter):
    (:func:`_solve_swings`).
 5. Swing with scatter: the solved swing perturbed by the head-speed, face-tilt and swing-path
    scatter (normal), and played through the chain with :func:`rallyarc.shot.simulate`.
-6. Meet: where the receiver meets each ball that landed in (:func:`rallyarc.rally.meet.meet`).
-7. Judge the result (:func:`rallyarc.rally.endings.judge`), record the rows
+6. Meet: where the receiver meets each ball that landed in, running from where they stand
+   when the hitter strikes (:func:`rallyarc.rally.meet.meet`).
+7. Judge the result (:func:`rallyarc.rally.endings.judge`; a rally ball's miss is a forced
+   error when the hitter met the incoming ball under pressure), record the rows
    (:func:`rallyarc.rally.table.shot_rows`) and advance every rally: the ball where the receiver
    met it, turned to the receiver's frame, or a second serve, or the end of the rally.
+8. Recover: the hitter runs from where they struck the ball back toward home at their running
+   speed for the time until the receiver's contact (:func:`rallyarc.rally.meet.recover`);
+   that is where they stand, and start their run, for the next ball.
+
+Every player's position is kept in their own chain frame: ``spot`` is where each end's player
+stands when the opponent strikes, ``body`` where the next hitter stands at their contact.
 
 The random numbers of a round are drawn for all live rallies before any shot is played, in
 the same order every round, so a block's tables depend only on its seed.
@@ -29,9 +37,9 @@ import numpy as np
 
 from rallyarc.aim import aim_stroke
 from rallyarc.rally.choice import choose_shots, draw_targets, scatter_aim
-from rallyarc.rally.endings import ONGOING, judge, point_winner
+from rallyarc.rally.endings import ONGOING, forced, judge, point_winner
 from rallyarc.rally.frames import ENDS, to_other_end
-from rallyarc.rally.meet import Contact, meet
+from rallyarc.rally.meet import Contact, meet, recover
 from rallyarc.rally.table import rally_table, shot_rows, shot_table
 from rallyarc.shot import BallState, ShotResult, Swing, simulate
 from rallyarc.units import RPM
@@ -42,7 +50,10 @@ class RallyState:
     """Every rally of a block between two rounds, arrays over the block's rallies: the next
     hitter's end index, the point's server and side, the serve to play (``"first"``,
     ``"second"``, or ``""`` for a ball in play), the shot count, the ball where the next hitter
-    meets it (in that hitter's frame) and how it was met, and the end of each rally."""
+    meets it (in that hitter's frame) and how it was met, the players' positions (x, y) [m]
+    in their own frames (``spot`` (n, 2, 2): each end's player when the opponent strikes;
+    ``body`` (n, 2): the next hitter at their contact; ``stretch``: the share of their run the
+    next hitter needed), and the end of each rally."""
 
     rally: np.ndarray
     hitter: np.ndarray
@@ -57,6 +68,9 @@ class RallyState:
     live: np.ndarray
     ending: np.ndarray
     winner: np.ndarray
+    spot: np.ndarray
+    body: np.ndarray
+    stretch: np.ndarray
 
     @classmethod
     def start(cls, patterns, start, n):
@@ -80,6 +94,9 @@ class RallyState:
             live=np.ones(n, bool),
             ending=np.full(n, "", dtype=object),
             winner=np.full(n, -1),
+            spot=np.tile(np.array([p.home for p in patterns.players], float), (n, 1, 1)),
+            body=np.zeros((n, 2)),
+            stretch=np.zeros(n),
         )
 
 
@@ -109,7 +126,9 @@ class Turn:
     places among the round's live rallies, for the draws), ``rallies`` (indices in the block),
     the rallies' serve kind, side, shot number and how the ball was met, the incoming ball in
     the hitter's frame, the chosen entries, the intended and scattered aim points [m], the
-    scatter factor, and the solved swing with whether its target was reachable."""
+    scatter factor, the solved swing with whether its target was reachable, where the hitter
+    stands at contact and the receiver when the hitter strikes (x, y) [m] in the hitter's frame,
+    the share of their run the hitter needed, and whether they met the ball under pressure."""
 
     end: int
     player: object
@@ -128,6 +147,10 @@ class Turn:
     grow: np.ndarray
     solved: Swing
     reachable: np.ndarray
+    body: np.ndarray
+    receiver_at: np.ndarray
+    stretch: np.ndarray
+    pressed: np.ndarray
 
     @property
     def serve(self):
@@ -156,6 +179,13 @@ def _toss(state, a, entries, entry_of):
         state.position[a[j]] = c
         state.velocity[a[j]] = toss.velocity()
         state.spin[a[j]] = [0.0, toss.spin_rpm * RPM, 0.0]
+        state.body[a[j]] = c[:2]
+        state.stretch[a[j]] = 0.0
+
+
+def to_other_end_xy(points):
+    """Positions (x, y) (N, 2) turned to the other end's frame (180 degrees about z)."""
+    return -np.asarray(points, float)
 
 
 def _ball(state, a):
@@ -177,6 +207,7 @@ def _plan_turn(state, players, e, act, hitters, draws):
         entries, entry_of, draws.target[mine], state.side[a], ball.position[:, 1], opp
     )
     aimed, grow = scatter_aim(pl, intended, ball.position[:, 2], kind != "", draws.aim[mine])
+    pressed = (kind == "") & forced(state.stretch[a], ball.position[:, 2], pl.contact_band)
     return Turn(
         end=e,
         player=pl,
@@ -195,6 +226,10 @@ def _plan_turn(state, players, e, act, hitters, draws):
         grow=grow,
         solved=Swing(**{f: np.zeros(a.size) for f in Swing.FIELDS}),
         reachable=np.zeros(a.size, bool),
+        body=state.body[a].copy(),
+        receiver_at=to_other_end_xy(state.spot[a, 1 - e]),
+        stretch=state.stretch[a].copy(),
+        pressed=pressed,
     )
 
 
@@ -259,12 +294,12 @@ def _play_turn(turn, draws, limit):
     result = simulate(turn.ball, swing, turn.player.conditions, labels=labels, serve=turn.serve)
     landed_in = result.metrics["outcome"] == "in"
     li = np.flatnonzero(landed_in)
-    contact = meet(result, li, turn.receiver)
+    contact = meet(result, li, turn.receiver, turn.receiver_at[li])
     reached = np.zeros(turn.rallies.size, bool)
     reached[li] = contact.found
     reason = np.full(turn.rallies.size, "", dtype=object)
     reason[li] = contact.reason
-    outcome = judge(turn.kind, landed_in, reached, turn.shot, limit)
+    outcome = judge(turn.kind, landed_in, reached, turn.shot, limit, turn.pressed)
     return Played(swing, result, landed_in, contact, outcome, reason)
 
 
@@ -280,6 +315,9 @@ def _advance(state, turn, played, report):
     state.velocity[nxt] = to_other_end(contact.velocity[contact.found])
     state.spin[nxt] = to_other_end(contact.spin[contact.found])
     state.phase[nxt] = contact.phase[contact.found]
+    state.body[nxt] = to_other_end_xy(contact.body[contact.found])
+    state.stretch[nxt] = contact.stretch[contact.found]
+    _recover(state, turn, li[contact.found], contact.t[contact.found])
     goes_on = a[cont]
     state.hitter[goes_on] = 1 - e
     state.kind[goes_on] = ""
@@ -293,6 +331,13 @@ def _advance(state, turn, played, report):
     state.live[ends] = False
     if done.any():
         report(int(done.sum()))
+
+
+def _recover(state, turn, k, time):
+    """Step 8: the hitter's recovery toward home for ``time`` [s], rallies ``k`` of the turn."""
+    pl = turn.player
+    spot = recover(turn.body[k], pl.home, pl.run_speed, time)
+    state.spot[turn.rallies[k], turn.end] = spot
 
 
 def play_round(state, players, rng, limit, report):

@@ -21,7 +21,7 @@ HEIGHT_EDGES_M = tuple(float(v) for v in np.round(np.arange(0.0, 3.001, 0.1), 2)
 DEPTH_ZONES = (("long", -np.inf, 0.0), ("deep", 0.0, 2.5), ("middle", 2.5, 5.485))
 #: Width zones by distance inside the nearest singles sideline [m].
 WIDTH_ZONES = (("wide", -np.inf, 0.0), ("near the line", 0.0, 1.0), ("off centre", 1.0, 2.0))
-ERROR_RESULTS = ("error", "fault", "double_fault")
+ERROR_RESULTS = ("forced_error", "unforced_error", "fault", "double_fault")
 WINNING_RESULTS = ("winner", "ace")
 #: Shot outcomes counted by shot type.
 OUTCOME_COUNTS = ("in", "net", "long", "wide", "out", "miss")

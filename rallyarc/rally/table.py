@@ -37,6 +37,7 @@ def _contact(turn, flip):
     pl, ball = turn.player, turn.ball
     serve = turn.kind != ""
     p_c = ball.position * flip
+    body = turn.body * flip[:2]
     z = ball.position[:, 2]
     top_in, side_in = topspin_sidespin(ball.velocity, ball.spin)
     return {
@@ -45,9 +46,14 @@ def _contact(turn, flip):
         "contact_height_m": z,
         "contact_behind_baseline_m": -ball.position[:, 0] - court.HALF_LENGTH,
         "contact_phase": turn.phase.astype(str),
+        "hitter_x_m": body[:, 0],
+        "hitter_y_m": body[:, 1],
+        "contact_stretch": turn.stretch,
+        "under_pressure": turn.pressed,
         "contact_side": np.where(serve, "", contact_side(ball.position[:, 1], pl)),
         "above_shoulder": ~serve & (z > pl.shoulder_height),
         "in_preferred_band": ~serve & (z >= pl.contact_band[0]) & (z <= pl.contact_band[1]),
+        "incoming_speed_mps": np.linalg.norm(ball.velocity, axis=1),
         "incoming_speed_kmh": np.linalg.norm(ball.velocity, axis=1) / KMH,
         "incoming_topspin_rpm": top_in / RPM,
         "incoming_sidespin_rpm": side_in / RPM,
@@ -61,6 +67,7 @@ def _outgoing_and_aim(turn, played, flip):
     intended = turn.intended * flip[:2]
     aimed = turn.aimed * flip[:2]
     return {
+        "outgoing_speed_mps": m["impact_speed_mps"],
         "outgoing_speed_kmh": m["impact_speed_mps"] / KMH,
         "outgoing_topspin_rpm": m["impact_topspin_rpm"],
         "outgoing_sidespin_rpm": m["impact_sidespin_rpm"],
@@ -106,6 +113,7 @@ def _landing_and_result(played, flip):
 def _swing(swing):
     """The swing as played (after the execution scatter)."""
     return {
+        "head_speed_mps": swing.head_speed,
         "head_speed_kmh": swing.head_speed / KMH,
         "swing_path_deg": np.degrees(swing.swing_path),
         "swing_direction_deg": np.degrees(swing.swing_direction),

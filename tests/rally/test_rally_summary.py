@@ -20,7 +20,7 @@ def test_summary_totals_add_up_to_the_shot_table(write_patterns, pattern_text):
     assert sum(s["endings"].values()) == run.n
     assert set(s["endings"]) == set(ENDINGS)
     assert sum(r["shots"] for r in s["by_shot_type"]) == len(shots) == s["shots"]
-    errors = shots["result"].isin(["error", "fault", "double_fault"]).sum()
+    errors = shots["result"].isin(["forced_error", "unforced_error", "fault", "double_fault"]).sum()
     assert sum(r["errors"] for r in s["by_shot_type"]) == errors
     for r in s["by_shot_type"]:
         assert sum(r[o] for o in ("in", "net", "long", "wide", "out", "miss")) == r["shots"]
