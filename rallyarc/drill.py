@@ -109,6 +109,7 @@ def solve_drill(drill):
                 "ball": i + 1,
                 "label": balls[i]["label"],
                 "repeat": balls[i].get("repeat", 1),
+                "speed_mps": s["speed"][j],
                 "speed_kmh": s["speed"][j] / KMH,
                 "speed_mph": s["speed"][j] / MPH,
                 "elevation_deg": math.degrees(s["elevation"][j]),
@@ -117,9 +118,9 @@ def solve_drill(drill):
                 "spin_kind": "topspin" if s["topspin"][j] >= 0 else "backspin",
                 "target_x_m": tx[j],
                 "target_y_m": ty[j],
-                "landing_x_m": land[j, 0],
-                "landing_y_m": land[j, 1],
-                "miss_cm": aim.miss_distance()[j] * 100,
+                "land_x_m": land[j, 0],
+                "land_y_m": land[j, 1],
+                "miss_m": aim.miss_distance()[j],
                 "net_clearance_m": m["net_clearance_m"][j],
                 "bounce_apex_m": m["bounce_apex_m"][j],
                 "height_at_player_m": m["receiver_height_m"][j],
@@ -156,7 +157,7 @@ def sheet_lines(drill, sheet, units="kmh"):
 
     for row in sheet.itertuples():
         flag = "" if row.reachable else f"  NOT REACHABLE: {row.note}"
-        landing = f"{row.landing_x_m:+6.2f},{row.landing_y_m:+6.2f}"
+        landing = f"{row.land_x_m:+6.2f},{row.land_y_m:+6.2f}"
         lines.append(
             f"{row.ball:>2} {row.repeat:>4} {getattr(row, speed_col):6.1f} "
             f"{row.elevation_deg:5.1f} {row.aim_left_deg:+6.1f} {row.spin_rpm:+6.0f} "

@@ -113,7 +113,7 @@ def _court_map(ax, drill, sheet, paths):
             mew=2,
             zorder=5,
         )
-        ax.plot(row.landing_x_m, row.landing_y_m, marker="x", ms=7, color=INK, zorder=6)
+        ax.plot(row.land_x_m, row.land_y_m, marker="x", ms=7, color=INK, zorder=6)
         ax.annotate(
             str(row.ball),
             (row.target_x_m, row.target_y_m),
@@ -156,7 +156,7 @@ def _settings_table(ax, sheet, units):
             f(r.elevation_deg, "{:.1f}"),
             f(r.aim_left_deg, "{:+.1f}"),
             f(r.spin_rpm, "{:+.0f}"),
-            f"{r.landing_x_m:+.1f}, {r.landing_y_m:+.1f}",
+            f"{r.land_x_m:+.1f}, {r.land_y_m:+.1f}",
             f(r.bounce_apex_m, "{:.2f}"),
             f(r.height_at_player_m, "{:.2f}"),
             f(r.time_to_player_s, "{:.2f}"),

@@ -98,6 +98,7 @@ def aim_stroke_cmd(stroke, scenario, target, free, clearance, receiver_height, b
     _write_trajectory(res, csv_path, step)
     sw = res.result.swing
     swing = {
+        "head_speed_mps": float(sw.head_speed[0]),
         "head_speed_kmh": float(sw.head_speed[0] * KMH_PER_MPS),
         "face_tilt_deg": math.degrees(sw.face_tilt[0]),
         "swing_direction_deg": math.degrees(sw.swing_direction[0]),
@@ -229,6 +230,7 @@ def _feed_record(machine, position, target, res):
         "target_m": list(target),
         "reachable": bool(res.reachable[0]),
         "reason": str(res.reason[0]),
+        "speed_mps": float(s["speed"][0]),
         "speed_kmh": float(s["speed"][0] * KMH_PER_MPS),
         "speed_mph": float(s["speed"][0] / units.MPH),
         "elevation_deg": math.degrees(s["elevation"][0]),

@@ -114,31 +114,40 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_jso
     )
     vx, vz = float(res.velocity[0, 0]), float(res.velocity[0, 2])
     spin_out = float(res.spin[0, 1])
+    out_deg = math.degrees(math.atan2(vz, vx))
     data = {
         "inputs": {
             "speed_mps": v,
+            "speed_kmh": v * KMH_PER_MPS,
             "angle_deg": math.degrees(theta),
             "spin_rpm": w / units.RPM,
             "surface": name,
-            "friction": surf.friction,
-            "restitution": surf.restitution,
+            "surface_friction": surf.friction,
+            "surface_restitution": surf.restitution,
             "ball": ball,
             "radius_m": preset.radius,
             "alpha": preset.alpha,
         },
-        "vx_mps": vx,
-        "vz_mps": vz,
-        "speed_mps": math.hypot(vx, vz),
-        "angle_deg": math.degrees(math.atan2(vz, vx)),
-        "spin_rpm": spin_out / units.RPM,
-        "regime": "grip" if bool(res.grip[0]) else "slide",
+        # the fields of a shot's bounce block (rallyarc.shot.metrics), in the bounce's frame
+        "bounce": {
+            "speed_in_mps": v,
+            "angle_in_deg": math.degrees(theta),
+            "speed_out_mps": math.hypot(vx, vz),
+            "angle_out_deg": out_deg,
+            "spin_in_rpm": w / units.RPM,
+            "spin_out_rpm": spin_out / units.RPM,
+            "vx_out_mps": vx,
+            "vz_out_mps": vz,
+            "regime": "grip" if bool(res.grip[0]) else "slide",
+        },
     }
+    out = data["bounce"]
     word = "topspin" if spin_out >= 0 else "backspin"
     lines = [
         f"in:   {v * KMH_PER_MPS:.1f} km/h at {math.degrees(theta):.1f} deg, "
         f"spin {w / units.RPM:+.0f} rpm",
-        f"out:  vx {vx:.2f} m/s, vz {vz:.2f} m/s ({data['speed_mps'] * KMH_PER_MPS:.1f} km/h at "
-        f"{data['angle_deg']:.1f} deg), {abs(data['spin_rpm']):.0f} rpm {word}",
-        f"regime: {data['regime']}",
+        f"out:  vx {vx:.2f} m/s, vz {vz:.2f} m/s ({out['speed_out_mps'] * KMH_PER_MPS:.1f} km/h at "
+        f"{out_deg:.1f} deg), {abs(out['spin_out_rpm']):.0f} rpm {word}",
+        f"regime: {out['regime']}",
     ]
     emit(data, as_json, lines)

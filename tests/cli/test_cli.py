@@ -98,9 +98,9 @@ def test_bounce_pace_test_geometry():
     data = run_json(
         "bounce", "--speed", "30", "--angle", "16", "--friction", "0.6", "--restitution", "0.8"
     )
-    assert data["vx_mps"] == pytest.approx(19.907, abs=1e-3)
-    assert data["vz_mps"] == pytest.approx(6.615, abs=1e-3)
-    assert data["regime"] == "slide"
+    assert data["bounce"]["vx_out_mps"] == pytest.approx(19.907, abs=1e-3)
+    assert data["bounce"]["vz_out_mps"] == pytest.approx(6.615, abs=1e-3)
+    assert data["bounce"]["regime"] == "slide"
 
 
 def test_bounce_grip_worked_value():
@@ -116,9 +116,9 @@ def test_bounce_grip_worked_value():
         "--restitution",
         "0.8",
     )
-    assert data["regime"] == "grip"
-    assert data["vx_mps"] == pytest.approx(9.6774, abs=1e-3)
-    assert data["vz_mps"] == pytest.approx(12.0, abs=1e-6)
+    assert data["bounce"]["regime"] == "grip"
+    assert data["bounce"]["vx_out_mps"] == pytest.approx(9.6774, abs=1e-3)
+    assert data["bounce"]["vz_out_mps"] == pytest.approx(12.0, abs=1e-6)
 
 
 def test_surface_worked_values():

@@ -50,14 +50,17 @@ def test_bounce_with_a_surface_file_gives_the_library_answer(wet_clay, angle):
         ball.alpha,
         domain.load_surface(wet_clay),
     )
-    assert data["vx_mps"] == float(res.velocity[0, 0])
-    assert data["vz_mps"] == float(res.velocity[0, 2])
-    assert data["spin_rpm"] == float(res.spin[0, 1]) / RPM
-    assert data["regime"] == ("grip" if res.grip[0] else "slide")
+    assert data["bounce"]["vx_out_mps"] == float(res.velocity[0, 0])
+    assert data["bounce"]["vz_out_mps"] == float(res.velocity[0, 2])
+    assert data["bounce"]["spin_out_rpm"] == float(res.spin[0, 1]) / RPM
+    assert data["bounce"]["regime"] == ("grip" if res.grip[0] else "slide")
     # the file's extra keys change the answer: friction and restitution alone give another one
     plain = run_json("bounce", "--speed", 30, "--angle", angle, "--friction", 0.8,
                      "--restitution", 0.85)  # fmt: skip
-    assert (plain["vx_mps"], plain["spin_rpm"]) != (data["vx_mps"], data["spin_rpm"])
+    assert (plain["bounce"]["vx_out_mps"], plain["bounce"]["spin_out_rpm"]) != (
+        data["bounce"]["vx_out_mps"],
+        data["bounce"]["spin_out_rpm"],
+    )
 
 
 def test_surface_rating_of_a_file_follows_every_key(wet_clay):

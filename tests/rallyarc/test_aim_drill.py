@@ -156,7 +156,7 @@ def test_drill_command_writes_every_format_and_refuses_to_overwrite(tmp_path):
     data = json.loads((out / "drill_sheet.json").read_text())
     assert "line of fire" in data["safety"]
     assert len(sheet) == 2 and sheet["reachable"].all()
-    assert (sheet["miss_cm"] < 5).all()
+    assert (sheet["miss_m"] < 0.05).all()
     traj = pd.read_parquet(out / "trajectories.parquet")
     assert set(traj["ball"]) == {1, 2} and {"t_s", "x_m", "spin_rpm", "phase"} <= set(traj)
     from PIL import Image
