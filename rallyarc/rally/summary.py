@@ -2,7 +2,7 @@
 and width, contact heights, replies by incoming shot, and the spin exchange.
 
 :func:`summarize` gives a JSON-ready dict in which every count adds up to the shot table;
-:func:`summary_lines` gives its text for the terminal.
+:func:`summary_lines` (:mod:`rallyarc.rally.text`) gives its text for the terminal.
 """
 
 from __future__ import annotations
@@ -11,6 +11,10 @@ import numpy as np
 
 from rallyarc.output.jsonsafe import json_ready
 from rallyarc.rally.endings import ENDINGS
+from rallyarc.rally.stats import match_statistics, precision, wilson
+from rallyarc.rally.text import summary_lines
+
+__all__ = ["summarize", "summary_lines"]
 
 #: Quantiles reported for distributions.
 QUANTILES = (0.1, 0.25, 0.5, 0.75, 0.9)
@@ -58,6 +62,11 @@ def _zones(values, zones, last):
     return out
 
 
+def _interval(k, n):
+    """The 95 % Wilson interval of a share k of n as a list [low, high]."""
+    return list(wilson(k, n))
+
+
 def _mean(values):
     values = _finite(values)
     return float(values.mean()) if values.size else None
@@ -96,6 +105,9 @@ def _points(run, names):
             "max": int(rallies["shots"].max()),
         },
         "points_share": {name: points[name] / max(1, run.n - unfinished) for name in names},
+        "points_share_interval": {
+            name: _interval(points[name], run.n - unfinished) for name in names
+        },
     }
 
 
@@ -114,6 +126,7 @@ def _by_shot_type(shots, names):
                 **{o: int((outcome == o).sum()) for o in OUTCOME_COUNTS},
                 "errors": errors,
                 "error_rate": errors / len(g),
+                "error_rate_interval": _interval(errors, len(g)),
                 "winners": int(g["result"].isin(WINNING_RESULTS).sum()),
             }
         )
@@ -123,17 +136,22 @@ def _by_shot_type(shots, names):
 
 def _against(rally_balls):
     """Each player's replies by the shot type they answer."""
-    return [
-        {
-            "player": player,
-            "replying_to": label,
-            "shots": int(len(g)),
-            "contact_height_median_m": float(g["contact_height_m"].median()),
-            "above_shoulder_share": float(g["above_shoulder"].mean()),
-            "error_rate": float(g["result"].isin(ERROR_RESULTS).mean()),
-        }
-        for (player, label), g in rally_balls.groupby(["player", "replying_to"], sort=True)
-    ]
+    rows = []
+    for (player, label), g in rally_balls.groupby(["player", "replying_to"], sort=True):
+        above, errors = int(g["above_shoulder"].sum()), int(g["result"].isin(ERROR_RESULTS).sum())
+        rows.append(
+            {
+                "player": player,
+                "replying_to": label,
+                "shots": int(len(g)),
+                "contact_height_median_m": float(g["contact_height_m"].median()),
+                "above_shoulder_share": above / len(g),
+                "above_shoulder_share_interval": _interval(above, len(g)),
+                "error_rate": errors / len(g),
+                "error_rate_interval": _interval(errors, len(g)),
+            }
+        )
+    return rows
 
 
 def _depth(landed):
@@ -161,9 +179,11 @@ def _contact_height(mine, p):
         "shoulder_height_m": p.shoulder_height,
         "above_shoulder": int(mine["above_shoulder"].sum()),
         "above_shoulder_share": float(mine["above_shoulder"].mean()) if len(mine) else None,
+        "above_shoulder_share_interval": _interval(mine["above_shoulder"].sum(), len(mine)),
         "in_preferred_range_share": (
             float(mine["in_preferred_band"].mean()) if len(mine) else None
         ),
+        "in_preferred_range_share_interval": _interval(mine["in_preferred_band"].sum(), len(mine)),
         "quantiles_m": _quantiles(h),
         "phase": {ph: int((mine["contact_phase"] == ph).sum()) for ph in ("rise", "apex", "drop")},
         "histogram": {
@@ -179,11 +199,13 @@ def _spin(mine, opp):
     """Topspin in and out of a player's rally balls, and what reaches the opponent."""
     t_in = mine["incoming_topspin_rpm"].to_numpy()
     t_out = mine["outgoing_topspin_rpm"].to_numpy()
+    reversed_n = int(np.sum(np.sign(t_out) != np.sign(t_in)))
     return {
         "shots": int(len(mine)),
         "incoming_topspin_rpm": _quantiles(t_in) | {"mean": _mean(t_in)},
         "outgoing_topspin_rpm": _quantiles(t_out) | {"mean": _mean(t_out)},
-        "reversed_share": float(np.mean(np.sign(t_out) != np.sign(t_in))) if t_in.size else None,
+        "reversed_share": reversed_n / t_in.size if t_in.size else None,
+        "reversed_share_interval": _interval(reversed_n, t_in.size),
         "topspin_at_opponent_contact_rpm": _mean(opp["incoming_topspin_rpm"]),
     }
 
@@ -201,7 +223,10 @@ def _spin_exchange(spin):
 def summarize(run):
     """The summary of a :class:`RallyRun` as a JSON-ready dict: points, endings, errors and
     winners by shot type, landing depth and width, contact heights (above the shoulder, in the
-    preferred range), and the spin exchange. Every count adds up to the shot table."""
+    preferred range), the spin exchange, and the match statistics with their 95 % intervals
+    (:func:`rallyarc.rally.stats.match_statistics`) and the rallies a stated precision needs.
+    Every share comes with its 95 % Wilson interval (``..._interval``: [low, high]). Every count
+    adds up to the shot table."""
     shots = run.shots
     players = run.patterns.players
     names = [p.name for p in players]
@@ -215,6 +240,8 @@ def summarize(run):
         "players": {p.name: _player_facts(p) for p in players},
         **_points(run, names),
         "by_shot_type": _by_shot_type(shots, names),
+        "statistics": match_statistics(run),
+        "precision": precision(run.n),
     }
     rally_balls = shots[shots["serve"] == ""]
     mine = {p.name: rally_balls[rally_balls["player"] == p.name] for p in players}
@@ -226,117 +253,3 @@ def summarize(run):
     spin = {n: _spin(mine[n], rally_balls[rally_balls["player"] != n]) for n in names}
     summary["spin_exchange"] = _spin_exchange(spin)
     return json_ready(summary)
-
-
-# ------------------------------------------------------------------------- text
-
-
-def _head_lines(summary, names):
-    length = summary["rally_length_shots"]
-    return [
-        f"{summary['patterns']} ({summary['club']}): {summary['rallies']} rallies, seed "
-        f"{summary['seed']}, at most {summary['max_shots']} shots",
-        "points: "
-        + ", ".join(
-            f"{n} {summary['points'][n]} ({summary['points_share'][n] * 100:.1f} %)" for n in names
-        )
-        + f"; unfinished {summary['unfinished']}",
-        "endings: "
-        + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in summary["endings"].items()),
-        f"rally length: mean {length['mean']:.1f} shots, median {length['p50']:.0f}, "
-        f"longest {length['max']}",
-    ]
-
-
-def _shot_type_lines(summary):
-    lines = [
-        f"{'player':<18} {'shot type':<24} {'shots':>6} {'net':>5} {'long':>5} {'wide':>5} "
-        f"{'out':>4} {'error %':>7} {'winners':>7}",
-    ]
-    for r in summary["by_shot_type"]:
-        lines.append(
-            f"{r['player']:<18} {r['shot_type']:<24} {r['shots']:>6} {r['net']:>5} {r['long']:>5} "
-            f"{r['wide']:>5} {r['out']:>4} {r['error_rate'] * 100:>7.1f} {r['winners']:>7}"
-        )
-    return lines
-
-
-def _height_and_depth_lines(summary, names):
-    lines = []
-    for n in names:
-        h = summary["contact_height"][n]
-        q = h["quantiles_m"]
-        share = h["above_shoulder_share"]
-        band = summary["players"][n]["preferred_contact_height_m"]
-        if share is None:
-            continue
-        lines.append(
-            f"{n}: contact height median {q['p50']:.2f} m "
-            f"(10-90 %: {q['p10']:.2f}-{q['p90']:.2f}); "
-            f"above the shoulder ({h['shoulder_height_m']:.2f} m) {share * 100:.1f} %; in the "
-            f"preferred {band[0]:.2f}-{band[1]:.2f} m {h['in_preferred_range_share'] * 100:.1f} %"
-        )
-    for n in names:
-        d = summary["depth"][n]
-        if not d["landed"]:
-            continue
-        z = d["zones"]
-        side = summary["width"][n]["side_margin_quantiles_m"]["p50"]
-        lines.append(
-            f"{n}: rally balls landing deep (last 2.5 m) {z['deep'] / d['landed'] * 100:.1f} %, "
-            f"short of the service line {z['short'] / d['landed'] * 100:.1f} %, long "
-            f"{z['long'] / d['landed'] * 100:.1f} %; median depth {d['quantiles_m']['p50']:.2f} m "
-            f"inside the baseline, median {side:.2f} m inside the sideline"
-        )
-    return lines
-
-
-def _against_lines(summary):
-    lines = [
-        f"{'player':<18} {'replying to':<26} {'shots':>6} {'contact':>8} {'above':>9} "
-        f"{'error %':>7}",
-        f"{'':<18} {'':<26} {'':>6} {'median m':>8} {'shoulder':>9} {'':>7}",
-    ]
-    for r in summary["against"]:
-        lines.append(
-            f"{r['player']:<18} {r['replying_to']:<26} {r['shots']:>6} "
-            f"{r['contact_height_median_m']:>8.2f} {r['above_shoulder_share'] * 100:>8.1f}% "
-            f"{r['error_rate'] * 100:>7.1f}"
-        )
-    return lines
-
-
-def _spin_lines(summary, names):
-    sx = summary["spin_exchange"]
-    lines = []
-    for n in names:
-        s = sx["players"][n]
-        if not s["shots"]:
-            continue
-        lines.append(
-            f"{n}: topspin in {s['incoming_topspin_rpm']['mean']:+.0f} rpm, out "
-            f"{s['outgoing_topspin_rpm']['mean']:+.0f} rpm (mean; - is backspin), spin sense "
-            f"reversed on {s['reversed_share'] * 100:.1f} % of shots"
-        )
-    if sx["dominant"]:
-        lines.append(
-            f"spin exchange: {sx['dominant']} dominates (their balls reach the opponent with more "
-            "topspin)"
-        )
-    return lines
-
-
-def summary_lines(summary):
-    """The summary as text lines for the terminal."""
-    names = list(summary["players"])
-    return [
-        *_head_lines(summary, names),
-        "",
-        *_shot_type_lines(summary),
-        "",
-        *_height_and_depth_lines(summary, names),
-        "",
-        *_against_lines(summary),
-        "",
-        *_spin_lines(summary, names),
-    ]
