@@ -15,7 +15,7 @@ import threading
 
 import click
 
-from rallyarc.cli import aim, court, drill, feed, plot, presets, rally, scene, shots
+from rallyarc.cli import aim, court, drill, feed, plot, presets, rally, scene, shots, study
 from rallyarc.errors import InputError
 
 __all__ = ["main"]
@@ -86,3 +86,4 @@ for _command in (
     rally.rally,
 ):
     main.add_command(_command)
+main.add_command(study.study)

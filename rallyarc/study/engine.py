@@ -131,7 +131,7 @@ def _distributed(study, todo, finished, scheduler, workers, client, announce, ru
                 )
                 client = stack.enter_context(Client(cluster))
             else:
-                client = stack.enter_context(Client(scheduler))
+                client = stack.enter_context(_connect(Client, scheduler))
         run.dashboard = client.dashboard_link
         if announce is not None and run.dashboard:
             announce(f"dask dashboard: {run.dashboard}")
@@ -154,3 +154,14 @@ def _distributed(study, todo, finished, scheduler, workers, client, announce, ru
             nxt = next(pending, None)
             if nxt is not None:
                 queue.add(submit(nxt))
+
+
+def _connect(client_class, address):
+    """A client of the scheduler at ``address``; one line naming it when it cannot be reached."""
+    from rallyarc.errors import InputError
+
+    try:
+        return client_class(address, timeout="10s")
+    except (OSError, TimeoutError) as exc:
+        reason = str(exc).splitlines()[0] if str(exc) else type(exc).__name__
+        raise InputError(f"scheduler {address}: cannot connect ({reason})") from None

@@ -10,7 +10,7 @@ from click.testing import CliRunner
 from rallyarc.cli import main
 
 COMMANDS = {"aim", "bounce", "compare", "drill", "feed", "plot", "presets", "rally", "scene",
-            "shot", "surface"}  # fmt: skip
+            "shot", "study", "surface"}  # fmt: skip
 
 
 def test_every_command_is_registered_and_has_help():
