@@ -99,6 +99,12 @@ _DRILL_BALL = {
     "repeat": Key(int, 1, 50, required=False),
 }
 
+#: A rally pattern's shot or serve may override its stroke's head speed and swing path.
+_SWING_OVERRIDES = {
+    "head_speed_kmh": Key(float, 5.0, 250.0, required=False),
+    "swing_path_deg": Key(float, -60.0, 80.0, required=False),
+}
+
 SCHEMAS = {
     "surfaces": {
         "name": Key(str),
@@ -276,6 +282,7 @@ SCHEMAS = {
                             "probability": Key(float, 0.0, 1.0),
                             "target_x_m": Key("vector", 0.5, 6.4, length=2),
                             "target_y_m": Key("vector", 0.0, 4.115, length=2),
+                            **_SWING_OVERRIDES,
                         },
                     ),
                     "shots": Key(
@@ -299,6 +306,7 @@ SCHEMAS = {
                             "when_incoming_topspin_above_rpm": Key(
                                 float, -8000.0, 8000.0, required=False
                             ),
+                            **_SWING_OVERRIDES,
                         },
                     ),
                 },

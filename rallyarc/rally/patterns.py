@@ -4,7 +4,9 @@ A pattern file (TOML, ``configs/patterns/`` or a path; schema ``"patterns"`` in
 :mod:`rallyarc.config`) describes the two players of a match: where each stands and how far
 they reach, the contact heights they like and when they take the ball (on the rise, at the
 apex, on the drop), their serves and their repertoire of shots with the probability of each
-(optionally only against some incoming balls), and how much their execution scatters.
+(optionally only against some incoming balls), and how much their execution scatters. A
+shot or serve may set its own ``head_speed_kmh`` and ``swing_path_deg`` in place of its
+stroke preset's (a player's own version of the stroke).
 
 :func:`load_patterns` reads and checks a file into :class:`Patterns`, SI units throughout;
 positions of a player are in the player's own chain frame (:mod:`rallyarc.rally.frames`).
@@ -126,6 +128,10 @@ def _entry(data, where, prefix, serve):
         stroke = domain.load_stroke(data["stroke"])
     except InputError as exc:
         raise InputError(f"{where}: key {label!r}: {exc}") from None
+    if "head_speed_kmh" in data:
+        stroke = replace(stroke, head_speed=data["head_speed_kmh"] * KMH)
+    if "swing_path_deg" in data:
+        stroke = replace(stroke, swing_path=math.radians(data["swing_path_deg"]))
     want = "serve" if serve else "groundstroke"
     if stroke.kind != want:
         raise InputError(
