@@ -15,7 +15,7 @@ import threading
 
 import click
 
-from rallyarc.cli import aim, court, drill, feed, plot, presets, rally, scene, shots, study
+from rallyarc.cli import aim, court, drill, feed, plot, presets, rally, report, scene, shots, study
 from rallyarc.errors import InputError
 
 __all__ = ["main"]
@@ -87,3 +87,4 @@ for _command in (
 ):
     main.add_command(_command)
 main.add_command(study.study)
+main.add_command(report.report)
