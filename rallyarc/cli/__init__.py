@@ -9,6 +9,7 @@ and :mod:`rallyarc.viz`.
 from __future__ import annotations
 
 import contextlib
+import os
 import signal
 import sys
 import threading
@@ -51,8 +52,13 @@ def _sigterm_as_interrupt():
     """While a command runs, SIGTERM raises KeyboardInterrupt as Ctrl-C does; the yielded list
     is non-empty once it came. The previous handler is put back afterwards."""
     stopped = []
+    command_pid = os.getpid()
 
     def handler(signum, frame):
+        if os.getpid() != command_pid:  # a worker process forked by the command: stop at once
+            signal.signal(signum, signal.SIG_DFL)
+            os.kill(os.getpid(), signum)
+            return
         stopped.append(signum)
         raise KeyboardInterrupt
 

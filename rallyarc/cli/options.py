@@ -292,15 +292,28 @@ def scenario_options(func):
     return click.argument("scenario", default="demo")(func)
 
 
-def spread_options(func):
-    """--scatter and --seed: shots with a player's execution scatter."""
-    func = click.option("--seed", default="0", show_default=True, help="Seed of the scatter.")(func)
-    return click.option(
-        "--scatter",
-        default="0",
-        show_default=True,
-        help="Shots per stroke with a player's execution scatter, 0 to 2000 (0: one each).",
-    )(func)
+#: Most scattered shots per stroke a figure takes (each finishes within seconds on two cores).
+MOST_SCATTER = 2000
+
+
+def spread_options_up_to(most):
+    """--scatter (0 to ``most``) and --seed: shots with a player's execution scatter."""
+
+    def deco(func):
+        func = click.option("--seed", default="0", show_default=True, help="Seed of the scatter.")(
+            func
+        )
+        return click.option(
+            "--scatter",
+            default="0",
+            show_default=True,
+            help=f"Shots per stroke with a player's execution scatter, 0 to {most} (0: one each).",
+        )(func)
+
+    return deco
+
+
+spread_options = spread_options_up_to(MOST_SCATTER)
 
 
 def figure_output_option(default):
@@ -332,14 +345,14 @@ def load_strokes(scenario, stroke_names, ball, racket, air, surface_name, receiv
     return sc, strokes, incoming_ball(sc)
 
 
-def play_shots(sc, strokes, incoming, scatter, seed):
-    """One shot per stroke, or ``--scatter`` scattered shots per stroke."""
+def play_shots(sc, strokes, incoming, scatter, seed, most=MOST_SCATTER):
+    """One shot per stroke, or ``--scatter`` scattered shots per stroke (at most ``most``)."""
     from rallyarc import sweep
     from rallyarc.shot import play
 
-    n = int(units.number(scatter, "--scatter", 0, 2000))
+    n = int(units.number(scatter, "--scatter", 0, most))
     if n != float(scatter):
-        raise InputError(f"--scatter: expected a whole number from 0 to 2000, got {scatter}")
+        raise InputError(f"--scatter: expected a whole number from 0 to {most}, got {scatter}")
     if n == 0:
         return play(strokes, sc.conditions, incoming)
     s = int(units.number(seed, "--seed", 0, 2**32 - 1))

@@ -10,6 +10,7 @@ import click
 
 from rallyarc import units
 from rallyarc.cli.options import (
+    MOST_SCATTER,
     condition_options,
     figure_output_option,
     figure_path,
@@ -18,6 +19,7 @@ from rallyarc.cli.options import (
     save_figure,
     scenario_options,
     spread_options,
+    spread_options_up_to,
     whole,
 )
 from rallyarc.errors import InputError
@@ -40,8 +42,13 @@ def plot():
     """2D figures: side view, top view, a sweep of one parameter, a success window."""
 
 
+#: Most scattered shots per stroke in a side view, which draws every path in full: 300 take
+#: about 30 s and 1.5 GB on two cores, and time and memory grow faster than N beyond.
+MOST_SIDE_SCATTER = 300
+
+
 def _view(draw, scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter,
-          seed, out, force):  # fmt: skip
+          seed, out, force, most=MOST_SCATTER):  # fmt: skip
     from rallyarc.output import export
 
     path = figure_path(out)
@@ -49,19 +56,19 @@ def _view(draw, scenario, stroke_names, ball, racket, air, surface_name, receive
     sc, strokes, incoming = load_strokes(
         scenario, stroke_names, ball, racket, air, surface_name, receiver_plane
     )
-    result = play_shots(sc, strokes, incoming, scatter, seed)
+    result = play_shots(sc, strokes, incoming, scatter, seed, most)
     click.echo(f"written: {save_figure(draw(result), path)}")
 
 
 @plot.command("side")
 @scenario_options
-@spread_options
+@spread_options_up_to(MOST_SIDE_SCATTER)
 @figure_output_option("side_view.png")
 def plot_side(**options):
     """Height against distance down the court for each stroke of SCENARIO (default demo)."""
     from rallyarc.viz import plots
 
-    _view(plots.side_view, **options)
+    _view(plots.side_view, **options, most=MOST_SIDE_SCATTER)
 
 
 @plot.command("top")
