@@ -25,8 +25,10 @@ One round, in named steps (each over every live rally at once, per hitter):
 Every player's position is kept in their own chain frame: ``spot`` is where each end's player
 stands when the opponent strikes, ``body`` where the next hitter stands at their contact.
 
-The random numbers of a round are drawn for all live rallies before any shot is played, in
-the same order every round, so a block's tables depend only on its seed.
+The random numbers of a round are drawn for every rally of the block before any shot is played,
+in the same order every round, so a block's tables depend only on its seed, and a rally's
+numbers in its k-th round are the same whichever pattern variant is played (common random
+numbers for :mod:`rallyarc.rally.whatif`).
 """
 
 from __future__ import annotations
@@ -111,12 +113,15 @@ class Draws:
     swing: np.ndarray
 
     @classmethod
-    def of(cls, rng, m):
+    def of(cls, rng, n, live):
+        """Draws for every rally of the block (``n``), kept for the ``live`` ones: a rally's
+        numbers in a round do not depend on which other rallies are still going, so pattern
+        variants played with one seed meet common random numbers rally by rally."""
         # the order of these draws fixes the tables for a seed: keep it
-        choice = rng.random(m)
-        target = rng.random((m, 2))
-        aim = rng.standard_normal((m, 2))
-        swing = rng.standard_normal((m, 3))
+        choice = rng.random(n)[live]
+        target = rng.random((n, 2))[live]
+        aim = rng.standard_normal((n, 2))[live]
+        swing = rng.standard_normal((n, 3))[live]
         return cls(choice, target, aim, swing)
 
 
@@ -344,7 +349,7 @@ def play_round(state, players, rng, limit, report):
     """One shot of every live rally; advances ``state`` and returns this round's rows."""
     act = np.flatnonzero(state.live)
     state.shot_no[act] += 1
-    draws = Draws.of(rng, act.size)
+    draws = Draws.of(rng, state.rally.size, act)
     hitters = state.hitter[act].copy()  # each live rally plays one shot per round
     turns = [_plan_turn(state, players, e, act, hitters, draws) for e in (0, 1)]
     turns = [t for t in turns if t is not None]
