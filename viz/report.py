@@ -147,9 +147,13 @@ def table_html(result):
     )
 
 
-def _figure(svg_text, caption):
+def _figure(svg_text, caption, wide=False):
     caption = html.escape(caption)
-    return f'<figure class="plot">{svg_text}<figcaption>{caption}</figcaption></figure>'
+    kind = "plot wide" if wide else "plot"
+    return (
+        f'<figure class="{kind}"><div class="art">{svg_text}</div>'
+        f"<figcaption>{caption}</figcaption></figure>"
+    )
 
 
 def _section(ident, title, body):
@@ -167,10 +171,15 @@ def _parts(sc, result, scene_result, sweep, window, drill, caution):
             "rules and qualified coaching practice.</p>"
         )
     parts.append(_section("table", "The strokes side by side", table_html(result)))
-    views = _figure(svg(plots.side_view(result), "side view"), "Side view: height against "
-                    "distance down the court.") + _figure(
-        svg(plots.top_view(result), "top view"), "Top view: paths and landings from above."
-    )  # fmt: skip
+    views = _figure(
+        svg(plots.side_view(result), "side view"),
+        "Side view: height against distance down the court.",
+        wide=True,
+    ) + _figure(
+        svg(plots.top_view(result), "top view"),
+        "Top view: paths and landings from above.",
+        wide=True,
+    )
     parts.append(_section("views", "Side and top views", f'<div class="pair">{views}</div>'))
     if sweep is not None or window is not None:
         body = ""

@@ -63,7 +63,12 @@ def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plan
     written = []
     for c, p in zip(cameras, pngs, strict=True):
         written.append(scenes.render_scene(result, png_path=p, camera=c))
-    if export_path is not None:
+    if export_path is not None and export_path.suffix.lower() == ".html":
+        from rallyarc.viz import webview  # the page shares the report's three.js view
+
+        page = webview.scene_page(result, scenes.scene_page(result).title, cameras[0])
+        written.append(export.write_text(export_path, page))
+    elif export_path is not None:
         written.append(scenes.render_scene(result, export_path=export_path, camera=cameras[0]))
     click.echo("written: " + ", ".join(str(w) for w in written))
     if show:

@@ -191,7 +191,7 @@ def _check_numbers(shown, record):
             assert shown[key] == pytest.approx(value * factor, abs=half * 1.0001), key
 
 
-def test_tapping_a_path_shows_the_numbers_of_the_clis_json(browser, demo_page, cli_shots):
+def test_tapping_a_path_shows_the_numbers_of_the_clis_json(browser, demo_page, cli_shots, tmp_path):
     """Tap every path (side view, where they part) on a touch screen: the panel names a shot
     and its numbers are that shot's in ``rallyarc compare --json``; the lob is told apart."""
     run = Offline(browser, viewport={"width": 1280, "height": 900}, has_touch=True)
@@ -207,6 +207,7 @@ def test_tapping_a_path_shows_the_numbers_of_the_clis_json(browser, demo_page, c
         shot, shown = _panel_numbers(page)
         _check_numbers(shown, cli_shots[shot])
         seen.add(shot)
+    page.locator("figure.view3d").screenshot(path=str(tmp_path / "desktop_tap.png"))
     lob = [s["inputs"]["label"] for s in cli_shots].index("lob")
     assert lob in seen and len(seen) >= 3
     run.close()
