@@ -20,6 +20,7 @@ from rallyarc.cli.options import (
     force_option,
     incoming_table,
     json_option,
+    number_text,
     scenario_with,
     time_step,
 )
@@ -197,7 +198,8 @@ def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, ball,
         f"set:     speed {data['speed_kmh']:.1f} km/h ({data['speed_mph']:.1f} mph), elevation "
         f"{data['elevation_deg']:.1f} deg, aim {data['aim_left_deg']:+.1f} deg (+ left), spin "
         f"{data['spin_rpm']:+.0f} rpm",
-        f"lands:   x {land[0]:+.2f}, y {land[1]:+.2f} ({data['miss_m'] * 100:.1f} cm from target), "
+        f"lands:   x {number_text(land[0], '{:+.2f}')}, y {number_text(land[1], '{:+.2f}')} "
+        f"({number_text(_cm(data['miss_m']), '{:.1f}')} cm from target), "
         f"{data['outcome']}",
         _player_line(data),
         SAFETY,
@@ -205,6 +207,11 @@ def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, ball,
     emit(data, as_json, lines)
     if not data["reachable"]:
         sys.exit(1)
+
+
+def _cm(metres):
+    """Metres in centimetres, None kept."""
+    return None if metres is None else metres * 100
 
 
 def _player_line(data):

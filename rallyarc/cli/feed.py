@@ -8,7 +8,7 @@ import math
 import click
 
 from rallyarc import units
-from rallyarc.cli.options import direction, emit, json_option
+from rallyarc.cli.options import check_ball_point, direction, emit, json_option
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
 
@@ -86,8 +86,7 @@ def feed(origin, speed, elevation, azimuth, spin, spin_axis, ball, surface_name,
         air_density=_number(air_density, "--air-density", 0.0, 5.0),
         aero=aero,
     )
-    if origin[2] < conditions.ball.radius:
-        raise InputError("--from: the release height Z must be above the ball's radius")
+    check_ball_point(origin, "--from", conditions.ball.radius)
     fed = simulate_feed(
         origin=origin,
         speed=units.speed(speed, "--speed", 0.1, 80.0),
