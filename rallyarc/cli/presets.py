@@ -40,6 +40,9 @@ _PRESET_FIGURES = {
     ),
     "drills": lambda d: f"{d['coach']} at {d['club']}: {len(d['balls'])} ball(s), {d['machine']}",
     "patterns": lambda d: f"{d['near']['name']} against {d['far']['name']} at {d['club']}",
+    "studies": lambda d: (
+        f"{d['kind']}, {d['design']}: " + ", ".join(p["name"] for p in d["parameters"])
+    ),
 }
 
 

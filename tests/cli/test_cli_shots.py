@@ -98,7 +98,7 @@ def test_presets_list_every_kind_with_sources():
     from rallyarc import config
 
     assert set(config.SCHEMAS) == {"balls", "surfaces", "rackets", "air", "strokes", "scenarios",
-                                   "machines", "drills", "patterns"}  # fmt: skip
+                                   "machines", "drills", "patterns", "studies"}  # fmt: skip
     for kind in config.SCHEMAS:  # every kind of preset the program reads is listed
         assert f"{kind}:" in result.output
     data = json.loads(run("presets", "rackets", "--json").output)
