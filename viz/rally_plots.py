@@ -324,6 +324,57 @@ def spin_exchange(shots, summary):
     return fig
 
 
+def whatif_differences(comparison):
+    """Each variant's difference from the base (percentage points) in points won and point
+    endings, with its 95 % interval, from :func:`rallyarc.rally.whatif.compare`."""
+    others = [v for v in comparison["variants"] if "difference_from_base" in v]
+    keys = list(others[0]["difference_from_base"]) if others else []
+    fig = _figure((7.5, 1.2 + 0.55 * max(1, len(keys))))
+    ax = fig.add_subplot()
+    step = 0.8 / max(1, len(others))
+    for i, v in enumerate(others):
+        colour = palette.variant_colour(i + 1)
+        label = v["label"]
+        for j, k in enumerate(keys):
+            d = v["difference_from_base"][k]
+            if d["difference"] is None:
+                continue
+            y = j + (i - (len(others) - 1) / 2) * step
+            mid = d["difference"] * 100
+            err = [[mid - d["low"] * 100], [d["high"] * 100 - mid]]
+            ax.errorbar(
+                mid,
+                y,
+                xerr=err,
+                fmt="o",
+                color=colour,
+                capsize=3,
+                label=label,
+            )
+            label = None
+            ax.annotate(
+                f"{mid:+.1f}",
+                (mid, y),
+                textcoords="offset points",
+                xytext=(0, 5),
+                ha="center",
+                fontsize=7,
+                color=colour,
+            )
+    ax.axvline(0.0, color=palette.COURT_HEX["ink"], lw=0.8)
+    ax.set_yticks(range(len(keys)), [k.replace("_", " ") for k in keys])
+    ax.invert_yaxis()
+    ax.set_xlabel("difference from the base [percentage points], 95 % interval")
+    ax.set_title(
+        f"what-if against {comparison['base']}: {comparison['rallies']} rallies, common random "
+        "numbers",
+        fontsize=9,
+    )
+    if ax.get_legend_handles_labels()[0]:
+        ax.legend(fontsize=8, loc="best")
+    return fig
+
+
 def save_figure(fig, path, dpi=_DPI):
     """Write a figure (format from the suffix) atomically; returns the path."""
     path = Path(path)

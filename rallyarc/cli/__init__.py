@@ -16,7 +16,21 @@ import threading
 
 import click
 
-from rallyarc.cli import aim, court, drill, feed, plot, presets, rally, report, scene, shots, study
+from rallyarc.cli import (
+    aim,
+    court,
+    drill,
+    feed,
+    plot,
+    presets,
+    rally,
+    report,
+    scene,
+    scout,
+    shots,
+    study,
+    template,
+)
 from rallyarc.errors import InputError
 
 __all__ = ["main"]
@@ -94,3 +108,5 @@ for _command in (
     main.add_command(_command)
 main.add_command(study.study)
 main.add_command(report.report)
+main.add_command(template.template)
+main.add_command(scout.scout)

@@ -21,6 +21,7 @@ import numpy as np
 from rallyarc.output.jsonsafe import json_ready
 from rallyarc.rally.runner import play_rallies
 from rallyarc.rally.stats import Z95, match_statistics, share
+from rallyarc.rally.text import with_interval
 
 #: Rally-level indicators compared between variants.
 INDICATORS = ("near_wins", "far_wins", "winners", "forced_errors", "unforced_errors")
@@ -89,12 +90,11 @@ def comparison_lines(comparison):
         f"numbers, seed {comparison['seed']}; differences in percentage points (95 % interval)"
     ]
     for v in comparison["variants"]:
-        near = v["points_won"]["near"]
-        lines.append(
-            f"{v['label']}: near player wins {near['share'] * 100:.1f} % "
-            f"({near['low'] * 100:.1f}-{near['high'] * 100:.1f})"
-        )
+        lines.append(f"{v['label']}: near player wins {with_interval(v['points_won']['near'])}")
         for k, d in v.get("difference_from_base", {}).items():
+            if d["difference"] is None or d["low"] is None:
+                lines.append(f"  {k.replace('_', ' ')}: -")
+                continue
             lines.append(
                 f"  {k.replace('_', ' ')}: {d['difference'] * 100:+.1f} "
                 f"({d['low'] * 100:+.1f} to {d['high'] * 100:+.1f})"

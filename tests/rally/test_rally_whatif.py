@@ -29,3 +29,22 @@ def test_difference_intervals_shrink_as_rallies_grow(write_patterns, pattern_tex
         lines = comparison_lines(out)
         assert any("near wins" in line for line in lines)
     assert widths[1] < widths[0]
+
+
+def test_scout_compare_cli_writes_json_and_figure(write_patterns, pattern_text, tmp_path):
+    from click.testing import CliRunner
+
+    from rallyarc.cli import main
+
+    a = write_patterns(pattern_text((3.0, 1.0, 2.0, 0.4), zone=True, max_shots=4), "a.toml")
+    b = write_patterns(pattern_text((6.0, 2.5, 5.0, 1.2), zone=True, max_shots=4), "b.toml")
+    out = tmp_path / "cmp"
+    args = ["scout", "compare", a, b, "--rallies", "12", "--workers", "1", "--out", str(out)]
+    res = CliRunner().invoke(main, args)
+    assert res.exit_code == 0, res.output
+    assert "near wins" in res.output
+    assert (out / "comparison.png").stat().st_size > 10_000
+    data = json.loads((out / "comparison.json").read_text())
+    assert data["rallies"] == 12 and len(data["variants"]) == 2
+    res = CliRunner().invoke(main, ["scout", "compare", a, b, "--rallies", "0"])
+    assert res.exit_code == 2 and len(res.output.strip().splitlines()) == 1
