@@ -8,7 +8,7 @@ import math
 import click
 
 from rallyarc import units
-from rallyarc.cli.options import check_ball_point, direction, emit, json_option
+from rallyarc.cli.options import check_ball_point, direction, emit, json_option, loaded
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
 
@@ -79,6 +79,11 @@ def feed(origin, speed, elevation, azimuth, spin, spin_axis, ball, surface_name,
         )
     axis = direction(spin_axis, "--spin-axis", -1e3, 1e3)
     origin = units.point(origin, "--from", -30.0, 30.0)
+    from rallyarc import domain
+
+    loaded("--ball", domain.load_ball, ball)  # errors in the file name the option
+    if surface_name is not None:
+        loaded("--surface", domain.load_surface, surface_name)
     conditions = feed_conditions(
         ball,
         _air(air, altitude, temperature, pressure, humidity),
@@ -106,7 +111,7 @@ def _air(air, altitude, temperature, pressure, humidity):
     from rallyarc.domain import load_air, make_air
 
     if all(v is None for v in (altitude, temperature, pressure, humidity)):
-        return load_air(air)
+        return loaded("--air", load_air, air)
     alt = _number(altitude, "--altitude", -500.0, 11000.0, 0.0)
     temp = _number(temperature, "--temperature", -40.0, 60.0)
     pres = _number(pressure, "--pressure", 30000.0, 110000.0)
