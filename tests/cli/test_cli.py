@@ -208,3 +208,20 @@ def test_aim_feed_reports_the_height_and_outcome_it_achieved():
     assert "cm from target), in" in text
     data = run_json(*args)
     assert data["outcome"] == "in" and data["player_before_bounce"] is False
+
+
+def test_template_writes_a_commented_pattern_file_that_plays(tmp_path):
+    target = tmp_path / "my_match.toml"
+    out = run("template", str(target))
+    assert out.exit_code == 0, out.output
+    text = target.read_text()
+    assert text.startswith("# A rally pattern pair to start from")
+    assert f"rallyarc rally {target}" in text
+    played = run("rally", str(target), "--rallies", "4", "--max-shots", "6", "--quiet", "--json")
+    assert played.exit_code == 0, played.output
+    assert json.loads(played.output)["rallies"] == 4
+    again = run("template", str(target))
+    assert again.exit_code == 2 and "--force" in again.output
+    scenario = tmp_path / "my_scenario.toml"
+    assert run("template", str(scenario), "--kind", "scenario").exit_code == 0
+    assert run("compare", str(scenario), "--json").exit_code == 0

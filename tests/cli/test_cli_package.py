@@ -9,8 +9,8 @@ from click.testing import CliRunner
 
 from rallyarc.cli import main
 
-COMMANDS = {"aim", "bounce", "compare", "drill", "feed", "plot", "presets", "rally", "scene",
-            "shot", "study", "surface"}  # fmt: skip
+COMMANDS = {"aim", "bounce", "compare", "drill", "feed", "plot", "presets", "rally", "report",
+            "scene", "scout", "shot", "study", "surface", "template"}  # fmt: skip
 
 
 def test_every_command_is_registered_and_has_help():
