@@ -56,6 +56,19 @@ def variant_groups(result):
     return [(lab, np.flatnonzero(labels == lab), i) for i, lab in enumerate(order)]
 
 
+def outcome_counts(result, idx):
+    """How many of the shots ``idx`` ended in each outcome, in the order of
+    :data:`OUTCOME_WORDS` (outcomes with no shot left out)."""
+    outcomes = np.asarray(result.metrics["outcome"]).astype(str)[idx]
+    return {o: int(np.sum(outcomes == o)) for o in OUTCOME_WORDS if np.any(outcomes == o)}
+
+
+def outcome_shares_text(counts):
+    """``in 85 %, net 10 %, long 5 %`` from :func:`outcome_counts`."""
+    total = sum(counts.values())
+    return ", ".join(f"{o} {100.0 * n / total:.0f} %" for o, n in counts.items())
+
+
 def drawn(idx, many, limit=40):
     """The shots of a group whose paths are drawn: all of them, or the first ``limit`` when
     there are many."""

@@ -18,6 +18,8 @@ from rallyarc.viz.common import (
     draw_court_lines,
     drawn,
     figure_and_axes,
+    outcome_counts,
+    outcome_shares_text,
     sampled_path,
     variant_groups,
 )
@@ -26,9 +28,11 @@ from rallyarc.viz.common import (
 def top_view(result, ax=None, dt=0.004, min_shots=10):
     """The court from above, to scale, with each variant's path and landing point.
 
-    A variant with at least ``min_shots`` landings gets its 2-sigma dispersion ellipse (the
-    covariance ellipse of its landing points; for normally scattered landings it holds about
-    86 % of them) and its mean landing point.
+    Every ball counts: the legend gives each variant's shares of in, net, long, wide and out;
+    a ball stopped by the net is drawn to the net and marked there. A variant with at least
+    ``min_shots`` balls that landed in the opponent's court gets the 2-sigma dispersion ellipse
+    of those landings only (the covariance ellipse; for normally scattered landings it holds
+    about 86 % of them) and their mean landing point; the legend says so.
 
     Returns
     -------
@@ -51,7 +55,7 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
     _court_lines(ax, c.singles)
     ax.axvline(plane_x, color="#6d6d6d", lw=1.0, ls=(0, (5, 3)), zorder=2)
 
-    ellipses = False
+    ellipses = stopped = False
     for label, idx, k in groups:
         # overlapping paths show as nested stripes: earlier variants drawn wider
         lw = 0.8 if many else 1.4 + 2.4 * (len(groups) - 1 - k) / max(1, len(groups) - 1)
@@ -61,9 +65,10 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
                     lw=lw, alpha=0.5 if many else 1.0, zorder=3 + k * 0.01,
                     label=display_label(label) if j == 0 else None,
                     solid_capstyle="butt")  # fmt: skip
-        ellipses |= _landings(ax, m["land_x_m"][idx], m["land_y_m"][idx], k, many, min_shots)
+        ellipses |= _landings(ax, m, idx, k, many, min_shots)
+        stopped |= _net_stops(ax, m, idx, k, many)
 
-    _top_legend(fig if own else ax, own, groups, c, ellipses, min_shots)
+    _top_legend(fig if own else ax, own, result, groups, c, (ellipses, stopped), min_shots)
     ax.set_xlabel("distance along the court from the net x [m] (hitter's side negative)")
     ax.set_ylabel("across the court y [m] (+ left of the hitter)")
     ax.set_title(
@@ -78,48 +83,79 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
     return fig
 
 
-def _landings(ax, lx, ly, k, many, min_shots):
-    """Variant k's landing points and, from ``min_shots`` landings on, their 2-sigma ellipse and
-    mean; True when the ellipse is drawn."""
+def _landings(ax, m, idx, k, many, min_shots):
+    """Variant k's landing points (short of the net too) and, from ``min_shots`` balls that
+    landed in on, the 2-sigma ellipse and mean of those; True when the ellipse is drawn."""
     colour = palette.variant_colour(k)
+    lx, ly = m["land_x_m"][idx], m["land_y_m"][idx]
     ok = np.isfinite(lx) & np.isfinite(ly)
     ax.plot(lx[ok], ly[ok], ls="none", marker=EVENT_MARKERS["land"], ms=3.5 if many else 7,
             mfc=colour, mec=palette.COURT_HEX["ink"], mew=0.6, zorder=6)  # fmt: skip
-    if ok.sum() < min_shots:
+    landed_in = ok & (np.asarray(m["outcome"][idx]).astype(str) == "in")
+    if landed_in.sum() < min_shots:
         return False
-    centre, width, height, angle = _ellipse(np.column_stack([lx[ok], ly[ok]]))
+    centre, width, height, angle = _ellipse(np.column_stack([lx[landed_in], ly[landed_in]]))
     ax.add_patch(Ellipse(centre, width, height, angle=angle, fill=False, ec=colour, lw=2.2,
                          zorder=7))  # fmt: skip
     ax.plot(*centre, marker="P", ms=9, mfc=colour, mec="white", mew=1.0, zorder=8)
     return True
 
 
-def _top_legend(target, own, groups, c, ellipses, min_shots):
-    """One legend below the figure (or in the given axes): the variants, then the markers."""
+def _net_stops(ax, m, idx, k, many):
+    """Where variant k's balls that met the net stopped (on the net's line); True if any."""
+    net_y = m["net_y_m"][idx]
+    hit_net = (np.asarray(m["outcome"][idx]).astype(str) == "net") & np.isfinite(net_y)
+    if not hit_net.any():
+        return False
+    ax.plot(np.zeros(int(hit_net.sum())), net_y[hit_net], ls="none", marker=EVENT_MARKERS["twice"],
+            ms=4.5 if many else 8, mfc=palette.variant_colour(k), mec=palette.COURT_HEX["ink"],
+            mew=0.6, zorder=6)  # fmt: skip
+    return True
+
+
+def variant_legend_label(result, label, idx):
+    """A variant's legend entry: its name, and how its balls ended (shares when scattered)."""
+    counts = outcome_counts(result, idx)
+    if len(idx) == 1:
+        return f"{display_label(label)}: {next(iter(counts))}"
+    return f"{display_label(label)} ({len(idx)} balls): {outcome_shares_text(counts)}"
+
+
+def _top_legend(target, own, result, groups, c, drawn_marks, min_shots):
+    """One legend below the figure (or in the given axes): the variants with their outcome
+    shares, then the markers."""
+    ellipses, stopped = drawn_marks
     ink = palette.COURT_HEX["ink"]
     handles = [
         Line2D([], [], color=palette.variant_colour(k), ls=palette.variant_style(k), lw=2.5)
         for _, _, k in groups
     ]
-    labels = [display_label(label) for label, _, _ in groups]
+    labels = [variant_legend_label(result, label, idx) for label, idx, _ in groups]
     extra = [
         (Line2D([], [], ls="none", marker=EVENT_MARKERS["land"], mfc="white", mec=ink, ms=7),
          "landing point"),
         (Line2D([], [], color="#6d6d6d", lw=1, ls=(0, (5, 3))),
          f"receiver's contact plane ({c.receiver_plane_m:.1f} m behind the baseline)"),
     ]  # fmt: skip
+    if stopped:
+        extra.append(
+            (Line2D([], [], ls="none", marker=EVENT_MARKERS["twice"], mfc="white", mec=ink, ms=8),
+             "stopped by the net")
+        )  # fmt: skip
     if ellipses:
         extra.append(
-            (Patch(fill=False, ec=ink, lw=2), f"2-sigma landing ellipse (>= {min_shots} shots)")
-        )
+            (Patch(fill=False, ec=ink, lw=2),
+             f"2-sigma ellipse of the balls that landed in only (>= {min_shots} of them)")
+        )  # fmt: skip
         extra.append(
-            (Line2D([], [], ls="none", marker="P", mfc=ink, mec="white", ms=9), "mean landing")
-        )
+            (Line2D([], [], ls="none", marker="P", mfc=ink, mec="white", ms=9),
+             "mean landing of the balls in")
+        )  # fmt: skip
     target.legend(
         handles + [h for h, _ in extra],
         labels + [t for _, t in extra],
         loc="outside lower center" if own else "upper left",
-        ncol=4,
+        ncol=2,
         fontsize=8.5,
         frameon=False,
     )
