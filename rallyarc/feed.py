@@ -176,3 +176,43 @@ def _inputs(origin, speed, elevation, azimuth, spin, axis, c):
         "receiver_plane_m": c.receiver_plane_m,
         "singles": c.singles,
     }
+
+
+def feed_ball(
+    origin_m=(-11.0, 0.0, 1.0),
+    speed_kmh=90.0,
+    elevation_deg=8.0,
+    azimuth_deg=0.0,
+    spin_rpm=1500.0,
+    spin_axis=(0.0, 1.0, 0.0),
+    ball=DEFAULT_BALL,
+    air=DEFAULT_AIR,
+    surface=DEFAULT_SURFACE,
+):
+    """:func:`simulate_feed` in the units a coach sets a machine in, with the ranges of
+    ``rallyarc feed``: speed 0.36 to 288 km/h, elevation -60 to 85 deg, azimuth -180 to 180
+    deg (from +x toward +y), spin -8000 to 8000 rpm about ``spin_axis``; presets by name.
+
+    Example: ``feed_ball(speed_kmh=70, elevation_deg=5).outcome``.
+    """
+    from rallyarc.errors import InputError
+
+    for name, value, low, high, unit in (
+        ("speed_kmh", speed_kmh, 0.1 * KMH_PER_MPS, 80.0 * KMH_PER_MPS, "km/h"),
+        ("elevation_deg", elevation_deg, -60.0, 85.0, "deg"),
+        ("azimuth_deg", azimuth_deg, -180.0, 180.0, "deg"),
+        ("spin_rpm", spin_rpm, -8000.0, 8000.0, "rpm"),
+    ):
+        if not (np.isfinite(value) and low <= value <= high):
+            raise InputError(f"{name}: must lie within {low:g} to {high:g} {unit}, got {value}")
+    return simulate_feed(
+        origin_m,
+        speed_kmh / KMH_PER_MPS,
+        np.radians(elevation_deg),
+        np.radians(azimuth_deg),
+        spin_rpm * RPM,
+        spin_axis,
+        ball=ball,
+        air=air,
+        surface=surface,
+    )

@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import numpy as np
 
+import rallyarc.shot.calls as calls
 import rallyarc.shot.stages as stages
 from rallyarc.shot.metrics import METRICS
 from rallyarc.shot.result import Phase, ShotResult
@@ -112,12 +113,40 @@ def _fly(start, conditions, labels, serve, record, rtol, approaching, m):
     )
 
 
-def play(strokes, conditions, incoming=None, record=True, **overrides):
-    """Play named strokes (:class:`rallyarc.domain.Stroke`) against one incoming ball, or each
-    serve against its own toss. ``incoming`` is a :class:`BallState` of one ball or one per
-    stroke; ``overrides`` set swing fields to arrays (a sweep)."""
-    strokes = list(strokes)
-    swing = Swing.from_strokes(strokes, **overrides)
+def play(strokes, conditions, incoming=None, record=True, **swing):
+    """Play strokes against one incoming ball, or each serve against its own toss.
+
+    Parameters
+    ----------
+    strokes : a :class:`rallyarc.domain.Stroke`, a stroke preset name or file, or a list of them.
+    conditions : a :class:`rallyarc.domain.Conditions`, a :class:`rallyarc.domain.Scenario` or
+        a scenario's preset name or file (whose incoming ball is played when ``incoming`` is
+        None).
+    incoming : BallState, optional
+        One ball, or one per stroke.
+    record : bool
+        Keep trajectories for figures and tables.
+    **swing
+        Swing changes with their unit in the name, each a number or an array (a sweep), range
+        checked as on the command line: ``head_speed_kmh``, ``head_speed_mps``,
+        ``head_speed_mph``, ``swing_path_deg``, ``swing_direction_deg``, ``face_tilt_deg``,
+        ``face_azimuth_deg``, ``racket_roll_deg``, ``impact_from_butt_m``, ``impact_offaxis_m``;
+        or the SI field names (``head_speed`` [m/s], ``face_tilt`` [rad], ...), checked
+        against the same ranges in SI.
+
+    Returns
+    -------
+    ShotResult
+
+    Example: ``play("topspin_drive", "demo", head_speed_kmh=95, face_tilt_deg=2)``.
+    """
+    strokes = calls.strokes_of(strokes)
+    conditions, scenario = calls.conditions_of(conditions)
+    if incoming is None and scenario is not None and scenario.incoming:
+        from rallyarc import domain
+
+        incoming = BallState.of(*domain.incoming_state(scenario.incoming))
+    swing = Swing.from_strokes(strokes, **calls.swing_overrides(swing))
     n = len(swing)
     if len(strokes) == 1 and n > 1:
         strokes = strokes * n
