@@ -373,9 +373,9 @@ def _choices(name, names):
 def _number(value, spec, label):
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
-    if spec.kind is int and value != int(value):
+    if not math.isfinite(value) or (spec.kind is int and value != int(value)):
         raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
-    if not (math.isfinite(value) and spec.low <= value <= spec.high):
+    if not spec.low <= value <= spec.high:
         raise InputError(f"{label} must be {spec.describe()}, got {value!r}")
     return int(value) if spec.kind is int else float(value)
 
