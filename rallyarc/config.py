@@ -333,7 +333,7 @@ def _read(kind, name_or_path):
         return str(text_path), decode(Path(text_path))
     names = preset_names(kind)
     if text_path not in names:
-        singular = kind if kind == "air" else kind[:-1]
+        singular = {"air": "air", "studies": "study"}.get(kind, kind[:-1])
         raise InputError(f"unknown {singular} preset {text_path!r}; " + _choices(text_path, names))
     item = _package_dir(kind) / f"{text_path}.toml"
     return f"configs/{kind}/{text_path}.toml", item.read_text(encoding="utf-8")

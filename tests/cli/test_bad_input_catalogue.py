@@ -333,6 +333,18 @@ CASES = [
     ("rally", "{d}/patterns_band.toml", E, ["near.contact_height_m", "low end first"]),
     ("rally", "{d}/patterns_shots.toml", E, ["'max_shots'", "1", "200"]),
     ("rally", "{d}/patterns_server.toml", E, ["'server'", "alternate"]),
+    # report, study, scout
+    ("report", "nodemo", E, ["SCENARIO", "did you mean", "demo"]),
+    ("report", "--scatter 2001", E, ["--scatter", "2000"]),
+    ("report", "-o {d}/page.txt", E, ["--out", ".html"]),
+    ("report", "-o {d}/page.html", E, ["--out", "exists", "--force"]),
+    ("report", "-o /proc/rallyarc/page.html", E, ["--out", "cannot write"]),
+    ("study run", "nosuch --out {d}/study", E, ["STUDY_FILE", "unknown study preset"]),
+    ("study run", "demo_study --out /proc/rallyarc", E, ["--out", "cannot write"]),
+    ("study run", "{d}/syntax.toml --out {d}/study", E, ["syntax.toml", "TOML syntax"]),
+    ("study summary", "{d}/none", E, ["none", "not a study dataset"]),
+    ("scout compare", "nosuch other", E, ["BASE", "unknown pattern preset"]),
+    ("scout compare", "demo_match", E, ["VARIANTS"]),
     # the group itself
     ("", "nosuchcommand", E, ["nosuchcommand"]),
 ]
@@ -377,7 +389,8 @@ def test_the_catalogue_covers_every_command_and_config_kind():
     commands = {c[0] for c in CASES}
     for name in ("feed", "surface", "bounce", "shot", "compare", "presets", "aim stroke",
                  "aim feed", "drill", "plot side", "plot top", "plot sweep", "plot window",
-                 "scene", "rally"):  # fmt: skip
+                 "scene", "rally", "report", "study run", "study summary",
+                 "scout compare"):  # fmt: skip
         assert name in commands, name
     files = " ".join(c[1] for c in CASES)
     prefixes = {"balls": "ball_", "surfaces": "surface_", "rackets": "racket_", "air": "air_",
