@@ -75,12 +75,21 @@ def test_sigterm_stops_a_command_like_ctrl_c_and_leaves_no_part_file(tmp_path):
         f"    export.atomic_write({str(tmp_path / 'x.txt')!r}, write)\n"
         "main(['slow-write'])\n"
     )
+    # -P: the installed package, not the repository's source folder on the working directory
     proc = subprocess.Popen(
-        [sys.executable, "-c", code], stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True
+        [sys.executable, "-P", "-c", code],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
     )
-    assert proc.stdout.readline().strip() == "writing"
-    proc.send_signal(signal.SIGTERM)
-    _, err = proc.communicate(timeout=30)
+    try:
+        assert proc.stdout.readline().strip() == "writing", proc.stderr.read()
+        proc.send_signal(signal.SIGTERM)
+        _, err = proc.communicate(timeout=30)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+            proc.communicate()
     assert proc.returncode == 143
     assert err.strip() == "rallyarc: terminated"
     assert os.listdir(tmp_path) == []

@@ -57,7 +57,9 @@ def test_feed_ball_takes_coach_units_and_checks_them():
 
 def test_import_rallyarc_is_light_and_names_its_entry_points():
     code = "import sys, rallyarc; print('numpy' in sys.modules, sorted(rallyarc.__all__))"
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    out = subprocess.run(
+        [sys.executable, "-P", "-c", code], capture_output=True, text=True, check=True
+    )
     assert out.stdout.startswith("False")
     assert rallyarc.__doc__ and "play" in rallyarc.__doc__
     for name in rallyarc.__all__:

@@ -85,7 +85,9 @@ def cluster():
         threads_per_worker=1,
         processes=True,
         host="127.0.0.1",
-        dashboard_address=None,
+        # a free port of the loopback interface for the dashboard: never a fixed port that
+        # another process may hold
+        dashboard_address="127.0.0.1:0",
     ) as local:
         yield local
 
