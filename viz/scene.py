@@ -111,25 +111,25 @@ def _net(pv, plotter, singles):
         pv.lines_from_points(cord).tube(radius=0.03), color=hexes["net_band"], name="net_band"
     )
     posts = [court.POST_Y, -court.POST_Y]
-    for y in posts:
+    for y, side in zip(posts, ("left", "right"), strict=True):
         plotter.add_mesh(
             pv.Cylinder(center=(0, y, court.NET_HEIGHT_POST / 2), direction=(0, 0, 1),
                         radius=0.05, height=court.NET_HEIGHT_POST),
-            color=hexes["net"],
+            color=hexes["net"], name=f"net_post_{side}",
         )  # fmt: skip
     if singles:
-        for y in (court.SINGLES_STICK_Y, -court.SINGLES_STICK_Y):
+        for y, side in zip((court.SINGLES_STICK_Y, -court.SINGLES_STICK_Y), ("left", "right"),
+                           strict=True):  # fmt: skip
             plotter.add_mesh(
                 pv.Cylinder(center=(0, y, court.NET_HEIGHT_POST / 2), direction=(0, 0, 1),
                             radius=0.03, height=court.NET_HEIGHT_POST),
-                color=hexes["net_band"],
+                color=hexes["net_band"], name=f"singles_stick_{side}",
             )  # fmt: skip
         # the net beyond the singles sticks hangs at the sticks' height to the posts
-        for sign in (1.0, -1.0):
+        for sign, side in ((1.0, "left"), (-1.0, "right")):
             yy = sign * np.array([court.SINGLES_STICK_Y, court.POST_Y])
-            plotter.add_mesh(
-                _sheet(pv, yy, np.full(2, court.NET_HEIGHT_POST)), color=hexes["net"], opacity=0.35
-            )
+            sheet = _sheet(pv, yy, np.full(2, court.NET_HEIGHT_POST))
+            plotter.add_mesh(sheet, color=hexes["net"], opacity=0.35, name=f"net_outer_{side}")
 
 
 def _sheet(pv, ys, top):
@@ -232,7 +232,7 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
 
     groups = variant_groups(result)
     many = len(result) > _MANY
-    for _, idx, k in groups:
+    for label, idx, k in groups:
         colour = palette.variant_colour(k)
         for i in drawn(idx, many, limit=max(1, 60 // len(groups))):
             _, pos, _ = result.path(i, dt=dt)
@@ -242,13 +242,13 @@ def build_scene(result, camera="hitter", window_size=(1400, 860), off_screen=Tru
             tube = pv.lines_from_points(pos).tube(
                 radius=_TUBE_RADIUS * (0.45 if many else 1.0), n_sides=12
             )
-            plotter.add_mesh(
-                tube, color=colour, smooth_shading=True, ambient=0.25, opacity=0.6 if many else 1
-            )
+            plotter.add_mesh(tube, color=colour, smooth_shading=True, ambient=0.25,
+                             opacity=0.6 if many else 1, name=f"path_{label}_{i}")  # fmt: skip
             if many:
                 continue
             for kind, point in _events(result, i).items():
-                plotter.add_mesh(_marker(pv, kind, point, r), color=colour, smooth_shading=True)
+                plotter.add_mesh(_marker(pv, kind, point, r), color=colour, smooth_shading=True,
+                                 name=f"{kind}_{label}_{i}")  # fmt: skip
     page = scene_page(result, camera)
     height = min(0.4, 0.01 + 0.026 * len(page.legend))
     box = plotter.add_legend(labels=page.legend, bcolor="white", border=True,
@@ -311,3 +311,42 @@ def _export(plotter, page, path):
             fh.write(text)
         return
     plotter.export_gltf(str(path), inline_data=True, save_normals=True)
+    _tidy_gltf(path, _mesh_names(plotter))
+
+
+def _mesh_names(plotter):
+    """Names of the plotter's visible 3D actors, in the order the glTF exporter writes them."""
+    from vtkmodules.vtkRenderingCore import vtkActor
+
+    return [
+        name
+        for name, actor in plotter.renderer.actors.items()
+        if isinstance(actor, vtkActor) and actor.GetVisibility()
+    ]
+
+
+def _tidy_gltf(path, names):
+    """Name the glTF's meshes, nodes and materials after the scene's actors, and mark
+    translucent materials (the net) as blended: the exporter leaves them opaque."""
+    import json
+
+    with open(path, encoding="utf-8") as fh:
+        gltf = json.load(fh)
+    meshes = gltf.get("meshes", [])
+    if len(names) != len(meshes):  # not the actors we know: keep the order's own names
+        names = [f"mesh_{k}" for k in range(len(meshes))]
+    for mesh, name in zip(meshes, names, strict=True):
+        mesh["name"] = name
+        for prim in mesh.get("primitives", []):
+            if "material" in prim:
+                material = gltf["materials"][prim["material"]]
+                material["name"] = f"{name}_material"
+    for node in gltf.get("nodes", []):
+        if "mesh" in node:
+            node["name"] = meshes[node["mesh"]]["name"]
+    for material in gltf.get("materials", []):
+        colour = material.get("pbrMetallicRoughness", {}).get("baseColorFactor", [1, 1, 1, 1])
+        if len(colour) == 4 and colour[3] < 1.0:
+            material["alphaMode"] = "BLEND"
+    with open(path, "w", encoding="utf-8") as fh:
+        json.dump(gltf, fh)

@@ -25,7 +25,11 @@ from rallyarc.errors import InputError
     show_default=True,
     help="Camera preset; 'all' writes one PNG per preset (NAME_hitter.png, ...).",
 )
-@click.option("--out", default="scene.png", show_default=True, help="PNG rendered off screen.")
+@click.option(
+    "--out",
+    default=None,
+    help="PNG rendered off screen [default: scene.png; with --export, only when given].",
+)
 @click.option(
     "--export",
     "export_path",
@@ -42,13 +46,15 @@ def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plan
     from rallyarc.output import export
     from rallyarc.viz import scene as scenes
 
-    png = figure_path(out, "--out", (".png",))
     cameras = list(scenes.CAMERAS) if camera == "all" else [camera]
-    pngs = (
-        [png.with_name(f"{png.stem}_{c}{png.suffix}") for c in cameras]
-        if camera == "all"
-        else [png]
-    )
+    pngs = []  # an export alone writes only the export
+    if out is not None or export_path is None:
+        png = figure_path(out or "scene.png", "--out", (".png",))
+        pngs = (
+            [png.with_name(f"{png.stem}_{c}{png.suffix}") for c in cameras]
+            if camera == "all"
+            else [png]
+        )
     export.check_targets(pngs, force, "--out")
     if export_path is not None:
         export_path = figure_path(export_path, "--export", (".html", ".gltf"))
@@ -61,7 +67,7 @@ def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plan
     )
     result = play_shots(sc, strokes, incoming, scatter, seed)
     written = []
-    for c, p in zip(cameras, pngs, strict=True):
+    for c, p in zip(cameras[: len(pngs)], pngs, strict=True):
         written.append(scenes.render_scene(result, png_path=p, camera=c))
     if export_path is not None and export_path.suffix.lower() == ".html":
         from rallyarc.viz import webview  # the page shares the report's three.js view
