@@ -105,6 +105,9 @@ _SWING_OVERRIDES = {
     "swing_path_deg": Key(float, -60.0, 80.0, required=False),
 }
 
+#: An observed statistic: a count of a total (observed-statistics files).
+_COUNT = {"count": Key(int, 0, 10**7), "of": Key(int, 1, 10**7)}
+
 SCHEMAS = {
     "surfaces": {
         "name": Key(str),
@@ -317,6 +320,32 @@ SCHEMAS = {
 }
 
 
+#: Observed statistics of one player of a pattern file (rallyarc.rally.fit): counts an
+#: analyst charted, each a count of a total. Read from a path only (no presets).
+OBSERVED = {
+    "name": Key(str),
+    "source": Key(str),
+    "player": Key(str, choices=("near", "far")),
+    "statistics": Key(
+        "table",
+        required=False,
+        table={
+            k: Key("table", required=False, table=_COUNT)
+            for k in (
+                "first_serve_in",
+                "second_serve_in",
+                "double_faults_per_service_point",
+                "aces_per_service_point",
+                "rally_ball_errors",
+                "deep_landing",
+                "short_landing",
+            )
+        },
+    ),
+    "shot_types": Key("tables", required=False, table={"shot_type": Key(str), **_COUNT}),
+}
+
+
 def _package_dir(kind):
     return resources.files("rallyarc.configs") / kind
 
@@ -512,6 +541,18 @@ def referenced(data, key, loader, where=None, name=None):
         return loader(data[key])
     except InputError as exc:
         raise InputError(f"{where or data['where']}: key {name or key!r}: {exc}") from None
+
+
+def load_observed(path):
+    """An observed-statistics file (a TOML path) checked against :data:`OBSERVED`."""
+    where = str(path)
+    try:
+        data = tomllib.loads(decode(Path(where)))
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{where}: TOML syntax error: {exc}") from None
+    out = _check(OBSERVED, data, where)
+    out["where"] = where
+    return out
 
 
 def load(kind, name_or_path):

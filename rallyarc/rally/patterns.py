@@ -281,10 +281,13 @@ def load_patterns(name_or_path):
     )
 
 
-def with_scatter(patterns, factor):
-    """The same patterns with every execution scatter SD multiplied by ``factor``."""
+def with_scatter(patterns, factor, ends=ENDS):
+    """The same patterns with every execution scatter SD of the players at ``ends`` (both by
+    default) multiplied by ``factor``."""
     players = tuple(
         replace(p, scatter={k: v * factor if k in SCATTER_SDS else v for k, v in p.scatter.items()})
+        if p.end in ends
+        else p
         for p in patterns.players
     )
     return replace(patterns, players=players)
