@@ -139,7 +139,7 @@ def simulate_feed(
     given = conditions
     origin = np.asarray(origin, float)
     axis = np.asarray(spin_axis, float)
-    axis = axis / np.linalg.norm(axis)
+    axis = kinematics.unit(axis, "spin_axis")[0]
     v0 = kinematics.velocity(speed, elevation, azimuth)[0]
     w0 = spin * axis
     mirrored = bool(v0[0] < 0)

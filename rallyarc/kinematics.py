@@ -64,10 +64,10 @@ def unit(vectors, name="vector"):
     """Unit vectors ``(N, 3)`` along ``vectors`` ``(N, 3)`` or ``(3,)``: the one guarded way to
     normalise a direction in the application.
 
-    Each vector is first divided by its largest component, so a direction given with tiny or
-    huge components (``0, 1e-200, 0``) is normalised without underflow or overflow. A vector
-    that has no direction (all zero) or a component that is not finite raises ValueError
-    naming ``name``.
+    A vector of ordinary length is divided by its norm; one with tiny or huge components
+    (``0, 1e-200, 0``), whose squared norm would underflow or overflow, is first divided by its
+    largest component. A vector that has no direction (all zero) or a component that is not
+    finite raises ValueError naming ``name``.
     """
     v = np.atleast_2d(np.asarray(vectors, dtype=float))
     if not np.all(np.isfinite(v)):
@@ -75,5 +75,6 @@ def unit(vectors, name="vector"):
     scale = np.max(np.abs(v), axis=1, keepdims=True)
     if np.any(scale == 0.0):
         raise ValueError(f"{name} must not be the zero vector")
-    scaled = v / scale
-    return scaled / np.linalg.norm(scaled, axis=1, keepdims=True)
+    ordinary = (scale > 1e-150) & (scale < 1e150)
+    v = np.where(ordinary, v, v / scale)
+    return v / np.linalg.norm(v, axis=1, keepdims=True)

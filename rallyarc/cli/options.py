@@ -76,13 +76,14 @@ def whole(text, option, low, high):
 
 
 def direction(text, option, low=-1e3, high=1e3):
-    """A direction ``X,Y,Z`` (any length) as a unit vector; the zero vector is refused naming
-    the option."""
+    """A direction ``X,Y,Z`` of any length (as given) that :func:`rallyarc.kinematics.unit`
+    can normalise; the zero vector is refused naming the option."""
     from rallyarc.kinematics import unit
 
     vector = units.point(text, option, low, high)
     try:
-        return tuple(float(c) for c in unit(vector, option)[0])
+        unit(vector, option)
+        return vector
     except ValueError as exc:
         reason = exc.args[0].removeprefix(option + " ")
         raise InputError(f"{option}: {reason}, got {text!r}") from None
