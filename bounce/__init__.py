@@ -5,6 +5,8 @@ Pure physics: depends on numpy only, works on batches of balls, SI units through
 - :mod:`bounce.ball`: the moment-of-inertia ratio ``alpha = I / (m r^2)`` and ball energy.
 - :mod:`bounce.contact`: :class:`Surface`, :func:`bounce` (3D, any spin axis),
   :func:`bounce_2d` and :func:`critical_angle`.
+- :mod:`bounce.deform`: :func:`bounce_deforming`, the slide-or-grip bounce of a ball that
+  compresses (friction acts at the flattened contact, below the centre).
 - :mod:`bounce.pace`: the ITF CS 01/02 court pace rating, formula and simulated test.
 """
 
@@ -27,6 +29,7 @@ from .contact import (
     critical_angle,
     normal_restitution,
 )
+from .deform import DEFAULT_BALL_STIFFNESS_N_PER_M, bounce_deforming, lever_ratio
 from .pace import (
     CATEGORY_NAMES,
     PACE_TEST_ANGLE_RAD,
@@ -54,6 +57,9 @@ __all__ = [
     "bounce_2d",
     "critical_angle",
     "normal_restitution",
+    "DEFAULT_BALL_STIFFNESS_N_PER_M",
+    "bounce_deforming",
+    "lever_ratio",
     "CATEGORY_NAMES",
     "PACE_TEST_ANGLE_RAD",
     "PACE_TEST_MAX_SPIN_RAD_S",
