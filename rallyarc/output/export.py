@@ -129,8 +129,16 @@ def write_folder(folder, write):
     ``folder``. An error, Ctrl-C or SIGTERM before the swap leaves the old folder as it was and
     removes the staging one; the swap itself runs with those signals held back, so the folder is
     either the old one or the new one, never a mix. Returns the paths as they are in ``folder``.
+
+    A folder given through a symbolic link is replaced where the link points. The folder this
+    process works in (or one holding it) is not moved away: its files are written in place,
+    each atomically, as :func:`atomic_write` does.
     """
-    folder = Path(folder)
+    given = Path(folder)
+    folder = given.resolve()
+    cwd = Path.cwd().resolve()
+    if cwd == folder or folder in cwd.parents:
+        return [given / Path(p).relative_to(folder) for p in write(folder)]
     folder.parent.mkdir(parents=True, exist_ok=True)
     staging = _new_folder(folder)
     try:
@@ -141,7 +149,7 @@ def write_folder(folder, write):
     except BaseException:
         shutil.rmtree(staging, ignore_errors=True)
         raise
-    return [folder / p.relative_to(staging) for p in written]
+    return [given / p.relative_to(staging) for p in written]
 
 
 def _new_folder(folder):

@@ -7,6 +7,7 @@ import os
 import signal
 import subprocess
 import sys
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -164,3 +165,22 @@ def test_output_checks_come_before_the_work(tmp_path, monkeypatch):
     (tmp_path / "file").write_text("x")
     result = CliRunner().invoke(main, ["compare", "--out", str(tmp_path / "file" / "sub")])
     assert result.exit_code == 2 and "is a file" in result.stderr, result.output
+
+
+def test_the_working_folder_is_written_in_place_not_moved(tmp_path, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "notes.txt").write_text("mine")
+    written = export.write_folder(".", lambda f: [export.write_text(f / "a.txt", "a")])
+    assert [p.name for p in written] == ["a.txt"]
+    assert Path.cwd() == tmp_path and (tmp_path / "a.txt").read_text() == "a"
+    assert sorted(os.listdir(tmp_path)) == ["a.txt", "notes.txt"]
+
+
+def test_a_folder_behind_a_link_is_replaced_where_the_link_points(tmp_path):
+    real = tmp_path / "real"
+    real.mkdir()
+    (real / "a.txt").write_text("old")
+    (tmp_path / "link").symlink_to(real)
+    export.write_folder(tmp_path / "link", lambda f: [export.write_text(f / "a.txt", "new")])
+    assert (tmp_path / "link").is_symlink() and (real / "a.txt").read_text() == "new"
+    assert sorted(os.listdir(tmp_path)) == ["link", "real"]
