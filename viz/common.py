@@ -69,6 +69,14 @@ def outcome_shares_text(counts):
     return ", ".join(f"{o} {100.0 * n / total:.0f} %" for o, n in counts.items())
 
 
+def variant_legend_label(result, label, idx):
+    """A variant's legend entry: its name, and how its balls ended (shares when scattered)."""
+    counts = outcome_counts(result, idx)
+    if len(idx) == 1:
+        return f"{display_label(label)}: {next(iter(counts))}"
+    return f"{display_label(label)} ({len(idx)} balls): {outcome_shares_text(counts)}"
+
+
 def drawn(idx, many, limit=40):
     """The shots of a group whose paths are drawn: all of them, or the first ``limit`` when
     there are many."""

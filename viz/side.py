@@ -22,6 +22,7 @@ from rallyarc.viz.common import (
     is_serve,
     sampled_path,
     variant_groups,
+    variant_legend_label,
 )
 from rallyarc.viz.labels import LabelPlacer
 
@@ -237,7 +238,11 @@ def _side_legends(fig, ax, own, result, many):
         Line2D([], [], color=palette.variant_colour(k), ls=palette.variant_style(k), lw=2.2)
         for _, _, k in groups
     ]
-    labels = [display_label(label) for label, _, _ in groups]
+    labels = [
+        variant_legend_label(result, label, idx) if len(idx) > 1 else display_label(label)
+        for label, idx, _ in groups
+    ]
+    scattered = any(len(idx) > 1 for _, idx, _ in groups)
     ink = palette.COURT_HEX["ink"]
 
     def key(marker):
@@ -264,7 +269,7 @@ def _side_legends(fig, ax, own, result, many):
         handles,
         labels,
         title="stroke variant" if not many else f"stroke variant ({len(result)} shots)",
-        ncol=min(3, max(1, len(labels))),
+        ncol=min(2 if scattered else 3, max(1, len(labels))),
         fontsize=8.5,
         title_fontsize=8.5,
         frameon=False,
@@ -276,7 +281,7 @@ def _side_legends(fig, ax, own, result, many):
             [h for h, _ in marks],
             [t for _, t in marks],
             loc="outside lower right",
-            ncol=2,
+            ncol=1 if scattered else 2,
             fontsize=8,
             frameon=False,
         )

@@ -18,10 +18,9 @@ from rallyarc.viz.common import (
     draw_court_lines,
     drawn,
     figure_and_axes,
-    outcome_counts,
-    outcome_shares_text,
     sampled_path,
     variant_groups,
+    variant_legend_label,
 )
 
 
@@ -79,7 +78,8 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
     )
     if own:  # room for the court to scale: the figure's height follows the court's aspect
         (x0, x1), (y0, y1) = ax.get_xlim(), ax.get_ylim()
-        fig.set_size_inches(12.0, min(9.0, 1.9 + 10.6 * (y1 - y0) / (x1 - x0)))
+        rows = math.ceil((len(groups) + 5) / 2)  # the legend's rows below the court
+        fig.set_size_inches(12.0, min(9.5, 1.3 + 0.2 * rows + 10.6 * (y1 - y0) / (x1 - x0)))
     return fig
 
 
@@ -111,14 +111,6 @@ def _net_stops(ax, m, idx, k, many):
             ms=4.5 if many else 8, mfc=palette.variant_colour(k), mec=palette.COURT_HEX["ink"],
             mew=0.6, zorder=6)  # fmt: skip
     return True
-
-
-def variant_legend_label(result, label, idx):
-    """A variant's legend entry: its name, and how its balls ended (shares when scattered)."""
-    counts = outcome_counts(result, idx)
-    if len(idx) == 1:
-        return f"{display_label(label)}: {next(iter(counts))}"
-    return f"{display_label(label)} ({len(idx)} balls): {outcome_shares_text(counts)}"
 
 
 def _top_legend(target, own, result, groups, c, drawn_marks, min_shots):

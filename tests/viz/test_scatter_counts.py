@@ -51,3 +51,12 @@ def test_net_balls_are_drawn_at_the_net_and_ellipses_fit_the_balls_in(scattered)
         pts = np.column_stack([m["land_x_m"][sel], m["land_y_m"][sel]])
         expected.append(tuple(np.round(pts.mean(axis=0), 6)))
     assert centres == sorted(expected)
+
+
+def test_the_side_view_legend_gives_the_shares_too(scattered):
+    from rallyarc.viz import side
+
+    fig = side.side_view(scattered)
+    texts = [t.get_text() for legend in fig.legends for t in legend.get_texts()]
+    idx = np.flatnonzero(scattered.labels == "drop_shot")
+    assert any(t.endswith(outcome_shares_text(outcome_counts(scattered, idx))) for t in texts)
