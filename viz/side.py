@@ -163,8 +163,8 @@ def _beyond_receiver(result, i, dt=0.004):
     if t_stop <= end1 + 1e-9:
         return None
     times = np.append(np.arange(end1, t_stop, dt), t_stop)
-    pos, _, _ = after.trajectory.sample(times)
-    return pos[:, k]
+    pos, _, _ = second.trajectory_of([i]).sample(times)
+    return pos[:, 0]
 
 
 def _side_events(m, i, r, plane_x, serve, colour):

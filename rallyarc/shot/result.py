@@ -37,6 +37,11 @@ class Phase:
             raise ValueError("every shot must have this phase")
         return col
 
+    def trajectory_of(self, shots):
+        """The recorded trajectory of some of the result's shots ``shots`` (indices), as a
+        trajectory of their own: sampling it costs what those shots cost."""
+        return _columns(self.flight.trajectory, self.columns(shots))
+
 
 @dataclass
 class ShotResult:

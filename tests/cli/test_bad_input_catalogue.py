@@ -279,7 +279,7 @@ CASES = [
     ("drill", "--units furlongs", E, ["--units"]),
     ("drill", "--dt 0", E, ["--dt"]),
     # plot side / top
-    ("plot side", "--scatter 301", E, ["--scatter", "0", "300"]),
+    ("plot side", "--scatter 2001", E, ["--scatter", "0", "2000"]),
     ("plot side", "--scatter 2.5", E, ["--scatter", "whole number"]),
     ("plot side", "--scatter -1", E, ["--scatter"]),
     ("plot side", "--out {d}/side.txt", E, ["--out", ".png"]),
