@@ -204,7 +204,7 @@ class ShotResult:
             "serve": bool(self.serve[i]),
             "contact_m": [float(v) for v in self.incoming.position[i]],
             "incoming_velocity_mps": [float(v) for v in self.incoming.velocity[i]],
-            "incoming_spin_rads": [float(v) for v in self.incoming.spin[i]],
+            "incoming_spin_rpm": [float(v) / RPM for v in self.incoming.spin[i]],
         }
         sw = self.swing
         if sw is not None:
