@@ -3,7 +3,9 @@
 Every function takes the per-shot table of :func:`rallyarc.rally.play_rallies` (a pandas
 DataFrame, positions in the court frame) and its summary (:func:`rallyarc.rally.summarize`)
 and returns a matplotlib Figure made without pyplot. Nothing here computes physics. Colours
-come from :mod:`viz.palette`.
+come from :mod:`viz.palette`. Shares are printed as the summary text prints them
+(:func:`rallyarc.rally.text.with_interval`: one decimal, with the 95 % interval). The landing
+heatmaps live in :mod:`viz.rally_landing`.
 """
 
 from __future__ import annotations
@@ -11,23 +13,36 @@ from __future__ import annotations
 from pathlib import Path
 
 import numpy as np
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.colors import LinearSegmentedColormap
-from matplotlib.figure import Figure
 from matplotlib.lines import Line2D
-from matplotlib.patches import Patch, Rectangle
+from matplotlib.patches import Patch
 
-from rallyarc import court
 from rallyarc.output.export import atomic_write
+from rallyarc.rally.text import with_interval
 from rallyarc.viz import palette
-from rallyarc.viz.common import draw_court_lines
+from rallyarc.viz.rally_landing import (
+    CELL_M,
+    LANDING_CMAP,
+    landing_edges,
+    landing_heatmaps,
+    new_figure,
+)
+
+__all__ = [
+    "CELL_M",
+    "LANDING_CMAP",
+    "SPIN_POINTS",
+    "contact_height_histograms",
+    "landing_edges",
+    "landing_heatmaps",
+    "save_figure",
+    "serve_returns",
+    "spin_exchange",
+    "whatif_differences",
+]
 
 _DPI = 120
 #: Most points drawn per panel of the spin exchange (a random subset beyond it, fixed seed).
 SPIN_POINTS = 4000
-#: Landing heatmap cell [m].
-CELL_M = 0.5
-
 _PHASE_COLOURS = {
     "rise": palette.VARIANT_HEX[1],
     "apex": palette.VARIANT_HEX[4],
@@ -36,143 +51,45 @@ _PHASE_COLOURS = {
 
 
 def _figure(figsize):
-    fig = Figure(figsize=figsize, layout="constrained")
-    FigureCanvasAgg(fig)
-    return fig
+    return new_figure(figsize)
 
 
 def _players(summary):
     return list(summary["players"])
 
 
-def _court(ax, zorder=3):
-    """The court's lines (5 cm, to scale), net and posts, drawn above the data."""
-    hexes = palette.COURT_HEX
-    draw_court_lines(ax, zorder=zorder, edge=hexes["ink"])
-    ax.plot([0, 0], [-court.POST_Y, court.POST_Y], color=hexes["net"], lw=2.0, zorder=zorder + 1)
+def serve_returns(shots):
+    """True for the shots that return a serve (the stroke after a serve in the same rally)."""
+    after_serve = shots.groupby("rally", sort=False)["serve"].shift(1).fillna("") != ""
+    return after_serve.to_numpy() & (shots["serve"] == "").to_numpy()
 
 
-def _tint(hex_colour, amount):
-    """A palette colour mixed with white (``amount`` 0: the colour, 1: white)."""
-    rgb = palette.hex_to_rgb(hex_colour)
-    return tuple(rgb + (1.0 - rgb) * amount)
-
-
-LANDING_CMAP = LinearSegmentedColormap.from_list(
-    "rallyarc_landings",
-    [_tint(palette.VARIANT_HEX[2], 0.8), palette.VARIANT_HEX[2], palette.VARIANT_HEX[0]],
-)
-
-
-def _court_ground(ax, x_edges, y_edges):
-    hl = court.HALF_LENGTH
-    ax.set_facecolor(palette.COURT_HEX["surround"])
-    ax.add_patch(
-        Rectangle(
-            (-hl, -court.DOUBLES_WIDTH / 2),
-            2 * hl,
-            court.DOUBLES_WIDTH,
-            fc=palette.COURT_HEX["surface"],
-            lw=0,
-            zorder=0,
-        )
-    )
-    ax.set_xlim(x_edges[0], x_edges[-1])
-    ax.set_ylim(y_edges[0], y_edges[-1])
-    ax.set_aspect("equal")
-
-
-def _note(ax, text):
-    ax.text(
-        0.5,
-        0.015,
-        text,
-        transform=ax.transAxes,
-        ha="center",
-        va="bottom",
-        fontsize=8,
-        color=palette.COURT_HEX["ink"],
-        bbox={"fc": "white", "ec": "none", "alpha": 0.85, "pad": 2},
-        zorder=6,
-    )
-
-
-def landing_heatmaps(shots, summary):
-    """Where each player's balls land (2D histograms on the court, court frame): rally balls
-    in the top row, serves in the bottom row; one column per player."""
-    names = _players(summary)
-    fig = _figure((12.5, 8.6))
-    axes = fig.subplots(2, len(names), sharex=True, sharey=True, squeeze=False)
-    hl = court.HALF_LENGTH
-    x_edges = np.arange(-hl - 3.5, hl + 3.5 + 1e-9, CELL_M)
-    y_edges = np.arange(-7.0, 7.0 + 1e-9, CELL_M)
-    landed = shots[np.isfinite(shots["land_x_m"])]
-    for row, (what, serve) in enumerate((("rally balls", False), ("serves", True))):
-        counts = {}
-        for name in names:
-            mine = landed[(landed["player"] == name) & ((landed["serve"] != "") == serve)]
-            counts[name], _, _ = np.histogram2d(
-                mine["land_x_m"], mine["land_y_m"], [x_edges, y_edges]
-            )
-        vmax = max(1.0, max(c.max() for c in counts.values()))
-        mesh = None
-        for col, name in enumerate(names):
-            ax = axes[row, col]
-            _court_ground(ax, x_edges, y_edges)
-            c = np.ma.masked_equal(counts[name], 0.0)
-            mesh = ax.pcolormesh(
-                x_edges, y_edges, c.T, cmap=LANDING_CMAP, vmin=0, vmax=vmax, zorder=1
-            )
-            _court(ax)
-            end = summary["players"][name]["end"]
-            toward = "far" if end == "near" else "near"
-            ax.set_title(
-                f"{name} ({end} end, hitting toward the {toward} end): "
-                f"{int(counts[name].sum())} {what} landed",
-                fontsize=9.5,
-            )
-            mine = shots[(shots["player"] == name) & ((shots["serve"] != "") == serve)]
-            if serve:
-                if len(mine):
-                    first = mine[mine["serve"] == "first"]
-                    second = mine[mine["serve"] == "second"]
-                    _note(
-                        ax,
-                        f"in the box: first serves {first['outcome'].eq('in').mean() * 100:.0f} "
-                        f"%, second serves {second['outcome'].eq('in').mean() * 100:.0f} %"
-                        if len(second)
-                        else f"first serves in the box {first['outcome'].eq('in').mean():.0%}",
-                    )
-            else:
-                d = summary["depth"][name]
-                if d["landed"]:
-                    pct = {k: v / d["landed"] * 100 for k, v in d["zones"].items()}
-                    _note(
-                        ax,
-                        f"landed: deep (last 2.5 m) {pct['deep']:.0f} %, middle "
-                        f"{pct['middle']:.0f} %, short of the service line {pct['short']:.0f} "
-                        f"%, long {pct['long']:.0f} %",
-                    )
-            if row == 1:
-                ax.set_xlabel("x along the court [m] (net at 0)")
-            if col == 0:
-                ax.set_ylabel("y across [m] (+ left seen from the near end)")
-        bar = fig.colorbar(mesh, ax=axes[row, :], shrink=0.9, pad=0.01)
-        bar.set_label(f"{what} per {CELL_M:g} m x {CELL_M:g} m cell")
-    fig.suptitle(f"{summary['patterns']}: where the balls land ({summary['rallies']} rallies)")
-    return fig
+def _share_text(value, interval):
+    """A summary share and its ``_interval`` field as the summary text prints them."""
+    return with_interval({"share": value, "low": interval[0], "high": interval[1]})
 
 
 def contact_height_histograms(shots, summary):
-    """Contact heights of each player's rally balls (serves excluded), stacked by when the ball
-    was met (rise, apex, drop), with the preferred range and the shoulder height."""
+    """Contact heights of each player's rally balls (serves excluded, serve returns included
+    and counted in the title, as in the summary), stacked by when the ball was met (rise,
+    apex, drop), with the preferred range and the shoulder height; one x-scale for all."""
     names = _players(summary)
-    fig = _figure((11.0, 5.2))
-    axes = np.atleast_1d(fig.subplots(1, len(names), sharey=True))
+    fig = _figure((11.0, 5.4))
+    axes = np.atleast_1d(fig.subplots(1, len(names), sharex=True, sharey=True))
     edges = np.asarray(summary["contact_height"][names[0]]["histogram"]["edges_m"], float)
+    returns = serve_returns(shots)
     rb = shots[shots["serve"] == ""]
+    returns = returns[(shots["serve"] == "").to_numpy()]
+    peak = 0.0
+    for name in names:
+        mine = rb[rb["player"] == name]
+        c, _ = np.histogram(mine["contact_height_m"], bins=edges)
+        peak = max(peak, c.max(initial=0) / max(1, len(mine)) * 100)
+    xmax = max(5.0, peak * 1.45)
     for ax, name in zip(axes, names, strict=True):
-        _contact_panel(ax, name, rb[rb["player"] == name], summary, edges)
+        m = (rb["player"] == name).to_numpy()
+        _contact_panel(ax, name, rb[m], int(returns[m].sum()), summary, edges, xmax)
+    axes[0].set_xlim(0, xmax)
     axes[0].set_ylabel("ball centre height at contact [m]")
     top = max(
         max(summary["players"][n]["shoulder_height_m"] for n in names) + 0.6,
@@ -195,11 +112,15 @@ def contact_height_histograms(shots, summary):
     source = "; ".join(
         f"{n}: shoulder {summary['players'][n]['shoulder_height_source']}" for n in names
     )
-    fig.suptitle(f"{summary['patterns']}: contact heights\n{source}", fontsize=10)
+    fig.suptitle(
+        f"{summary['patterns']}: contact heights of the rally balls (serve returns included), "
+        f"shares with their 95 % interval\n{source}",
+        fontsize=10,
+    )
     return fig
 
 
-def _contact_panel(ax, name, mine, summary, edges):
+def _contact_panel(ax, name, mine, returns, summary, edges, xmax):
     """One player's contact heights: shares of the contacts per height bin, stacked by phase,
     with the preferred range and the shoulder height marked."""
     info = summary["players"][name]
@@ -226,31 +147,19 @@ def _contact_panel(ax, name, mine, summary, edges):
     ax.axhspan(lo, hi, color=palette.VARIANT_HEX[5], alpha=0.15, lw=0, zorder=0)
     shoulder = info["shoulder_height_m"]
     ax.axhline(shoulder, color=palette.VARIANT_HEX[3], lw=1.6, ls="--")
-    xmax = max(5.0, left.max() * 1.45)
-    ax.set_xlim(0, xmax)
-    ax.text(
-        xmax * 0.98,
-        shoulder + 0.03,
-        f"shoulder {shoulder:.2f} m",
-        ha="right",
-        va="bottom",
-        fontsize=8,
-        color=palette.VARIANT_HEX[3],
-    )
-    ax.text(
-        xmax * 0.98,
-        hi - 0.03,
-        f"preferred {lo:.2f}-{hi:.2f} m",
-        ha="right",
-        va="top",
-        fontsize=8,
-        color=palette.VARIANT_HEX[5],
-    )
-    share = h["above_shoulder_share"]
-    above = "-" if share is None else f"{share * 100:.1f} %"
+    for y, va, text, colour in (
+        (shoulder + 0.03, "bottom", f"shoulder {shoulder:.2f} m", palette.VARIANT_HEX[3]),
+        (hi - 0.03, "top", f"preferred {lo:.2f}-{hi:.2f} m", palette.VARIANT_HEX[5]),
+    ):
+        ax.text(xmax * 0.98, y, text, ha="right", va=va, fontsize=8, color=colour)
+    above, inside = "-", "-"
+    if h["above_shoulder_share"] is not None:
+        above = _share_text(h["above_shoulder_share"], h["above_shoulder_share_interval"])
+        inside = _share_text(h["in_preferred_range_share"], h["in_preferred_range_share_interval"])
     ax.set_title(
-        f"{name}: {len(mine)} rally-ball contacts, above the shoulder {above}",
-        fontsize=10,
+        f"{name}: {h['contacts']} rally-ball contacts, {returns} of them serve returns\n"
+        f"above the shoulder {above}\nin the preferred range {inside}",
+        fontsize=9.5,
     )
     ax.set_xlabel("share of the player's contacts [%]")
     ax.grid(axis="x", color="#dddddd", lw=0.6)
@@ -259,7 +168,8 @@ def _contact_panel(ax, name, mine, summary, edges):
 
 def spin_exchange(shots, summary):
     """Incoming topspin at contact against the topspin the player sends back, rally balls
-    only, one panel per player, coloured by shot type."""
+    only (serve returns included, as in the summary), one panel per player, coloured by shot
+    type."""
     names = _players(summary)
     fig = _figure((11.5, 5.4))
     axes = np.atleast_1d(fig.subplots(1, len(names), sharex=True, sharey=True))
@@ -301,7 +211,8 @@ def spin_exchange(shots, summary):
             ax.set_title(
                 f"{name}: mean in {s['incoming_topspin_rpm']['mean']:+.0f} rpm, out "
                 f"{s['outgoing_topspin_rpm']['mean']:+.0f} rpm\n"
-                f"spin sense reversed on {s['reversed_share'] * 100:.0f} % of "
+                "spin sense reversed on "
+                f"{_share_text(s['reversed_share'], s['reversed_share_interval'])} of "
                 f"{s['shots']} shots"
                 + (f" ({len(shown)} shown)" if len(shown) < len(mine) else ""),
                 fontsize=9.5,
@@ -315,8 +226,8 @@ def spin_exchange(shots, summary):
     axes[0].set_ylabel("outgoing topspin off the racket [rpm] (- backspin)")
     dom = summary["spin_exchange"]["dominant"]
     fig.suptitle(
-        f"{summary['patterns']}: the spin exchange"
-        + (f" ({dom}'s balls reach the opponent with more topspin)" if dom else "")
+        f"{summary['patterns']}: the spin exchange of the rally balls (serve returns included)"
+        + (f"\n{dom}'s balls reach the opponent with more topspin" if dom else "")
         + "\ntopspin relative to the ball's own travel; dotted: the racket adds no spin "
         "(outgoing = - incoming)",
         fontsize=10,
@@ -353,17 +264,20 @@ def whatif_differences(comparison):
             )
             label = None
             ax.annotate(
-                f"{mid:+.1f}",
+                f"{mid:+.1f} ({d['low'] * 100:+.1f} to {d['high'] * 100:+.1f})",
                 (mid, y),
                 textcoords="offset points",
-                xytext=(0, 5),
+                xytext=(0, 6),
                 ha="center",
-                fontsize=7,
-                color=colour,
+                va="bottom",
+                fontsize=7.5,
+                color=palette.COURT_HEX["ink"],
+                bbox={"fc": "white", "ec": colour, "lw": 0.6, "alpha": 0.9, "pad": 1.5},
+                zorder=4,
             )
     ax.axvline(0.0, color=palette.COURT_HEX["ink"], lw=0.8)
     ax.set_yticks(range(len(keys)), [k.replace("_", " ") for k in keys])
-    ax.invert_yaxis()
+    ax.set_ylim(len(keys) - 0.5, -0.8)
     ax.set_xlabel("difference from the base [percentage points], 95 % interval")
     ax.set_title(
         f"what-if against {comparison['base']}: {comparison['rallies']} rallies, common random "
