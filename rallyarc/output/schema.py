@@ -71,6 +71,8 @@ def _shot_record():
     for name in ("net_crossing", "landing", "bounce"):
         props[name] = _nullable(props[name])
     props["outcome"] = {"enum": list(OUTCOMES)}
+    # the reason for each null: "block" or "block.field" -> a sentence
+    props["missing"] = {"type": "object", "additionalProperties": {"type": "string"}}
     return {
         "type": "object",
         "required": ["inputs", *blocks, "outcome"],

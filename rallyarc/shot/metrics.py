@@ -12,7 +12,16 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-__all__ = ["Metric", "METRICS", "BLOCKS", "metric", "block_fields", "glossary_markdown"]
+__all__ = [
+    "BLOCKS",
+    "METRICS",
+    "MISSING",
+    "Metric",
+    "block_fields",
+    "glossary_markdown",
+    "metric",
+    "missing_reason",
+]
 
 #: JSON block of a record -> prefix of its metrics' keys. ``outcome`` has a block of its own
 #: with no prefix (the record's top-level ``outcome``).
@@ -429,6 +438,32 @@ def metric(key):
 def block_fields(block, keys=None):
     """The metrics of one JSON block, in output order (only those in ``keys`` if given)."""
     return [m for m in _ALL if m.block == block and (keys is None or m.key in keys)]
+
+
+#: Why a metric can be missing (``null`` in JSON): the reason a record gives beside a null
+#: field (``ShotResult.record``'s ``missing``). A block that is missing as a whole (no net
+#: crossing, no landing, no bounce) takes its reason from the shot's outcome.
+MISSING = {
+    "net_crossing": "the ball did not reach the net's plane (the racket missed it)",
+    "landing": "no landing: the ball was stopped by the net, or the racket missed it",
+    "bounce": "no bounce past the net: the ball was stopped by the net or landed short of it",
+    "flight_ground_x_m": "the flight did not reach the ground within the longest flight time",
+    "flight_ground_y_m": "the flight did not reach the ground within the longest flight time",
+    "land_depth_m": "the ball landed on the hitter's own side, short of the net",
+    "land_side_margin_m": "the ball landed on the hitter's own side, short of the net",
+    "land_box_depth_m": "not a serve: only a serve is judged against a service box",
+    "land_box_side_margin_m": "not a serve: only a serve is judged against a service box",
+    "bounce_second_x_m": "no second bounce within the longest flight time",
+    "bounce_second_y_m": "no second bounce within the longest flight time",
+    "receiver_height_m": "the ball did not reach the receiver's plane (net, or two bounces first)",
+    "receiver_t_s": "the ball did not reach the receiver's plane (net, or two bounces first)",
+    "receiver_y_m": "the ball did not reach the receiver's plane (net, or two bounces first)",
+}
+
+
+def missing_reason(key):
+    """Why the metric (or block) ``key`` may be missing; a generic reason when none is set."""
+    return MISSING.get(key, "not defined for this shot")
 
 
 def glossary_markdown():

@@ -6,7 +6,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from rallyarc.shot.metrics import block_fields
+from rallyarc.shot.metrics import BLOCKS, block_fields, missing_reason
 from rallyarc.shot.state import BallState, Swing
 from rallyarc.units import RPM
 
@@ -180,13 +180,15 @@ class ShotResult:
     def record(self, i):
         """One shot as a JSON-ready dict: inputs, impact, net_crossing, landing, bounce,
         flight, receiver and outcome; each block's fields are its metrics
-        (:mod:`rallyarc.shot.metrics`), missing values ``None``."""
+        (:mod:`rallyarc.shot.metrics`), missing values ``None``; ``missing`` gives the reason
+        for each ``None`` (``"landing"`` for a whole block, ``"landing.box_depth_m"`` for a
+        field)."""
         m = {k: v[i] for k, v in self.metrics.items()}
 
         def block(name):
             return {x.field: _plain(m[x.key]) for x in block_fields(name, m)}
 
-        return {
+        out = {
             "inputs": self._inputs(i),
             "impact": block("impact"),
             "net_crossing": block("net_crossing") if m["net_crossed_plane"] else None,
@@ -196,6 +198,8 @@ class ShotResult:
             "receiver": block("receiver"),
             "outcome": _plain(m["outcome"]),
         }
+        out["missing"] = _missing(out)
+        return out
 
     def _inputs(self, i):
         c = self.conditions
@@ -239,6 +243,22 @@ class ShotResult:
         outcomes = dict(zip(*np.unique(self.metrics["outcome"], return_counts=True), strict=True))
         counts = ", ".join(f"{k} {int(v)}" for k, v in outcomes.items())
         return f"<ShotResult: {len(self)} shots ({shown}); {counts}>"
+
+
+def _missing(record):
+    """Why each null of a record is null: ``{"block": reason}`` or ``{"block.field": reason}``."""
+    reasons = {}
+    for name in BLOCKS:
+        if name == "outcome" or name not in record:
+            continue
+        values = record[name]
+        if values is None:
+            reasons[name] = missing_reason(name)
+            continue
+        for field, value in values.items():
+            if value is None:
+                reasons[f"{name}.{field}"] = missing_reason(BLOCKS[name] + field)
+    return reasons
 
 
 def _plain(value):
