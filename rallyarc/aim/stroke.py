@@ -84,7 +84,7 @@ def aim_stroke(
     names = list(STYLES[free])
     extra = clearance if clearance is not None else receiver_height
     extra_key = "net_clearance_m" if clearance is not None else "receiver_height_m"
-    active = None
+    active = has_extra = None
     if extra is not None:
         names.append("head_speed" if free == "tilt" else "face_tilt")
         extra = np.broadcast_to(np.asarray(extra, float), tx.shape)
@@ -94,63 +94,81 @@ def aim_stroke(
             extra = np.where(has_extra, extra, 0.0)
     n = tx.size
     state, base, serve = _batch(incoming, stroke, which, n)
-    offset = base.face_azimuth - base.swing_direction
     lo = np.array([_SWING_BOUNDS[k][0] for k in names])
     hi = np.array([_SWING_BOUNDS[k][1] for k in names])
     scale = np.array([_SWING_BOUNDS[k][2] for k in names])
-
-    def swings(p, idx):
-        reps = p.shape[0] // len(idx)
-        fields = {f: np.tile(getattr(base, f)[idx], reps) for f in Swing.FIELDS}
-        for j, name in enumerate(names):
-            fields[name] = p[:, j]
-        fields["face_azimuth"] = fields["swing_direction"] + np.tile(offset[idx], reps)
-        return Swing(**fields)
-
-    def run(p, idx, record=False):
-        reps = p.shape[0] // len(idx)
-        st = BallState(
-            *(np.tile(a[idx], (reps, 1)) for a in (state.position, state.velocity, state.spin))
-        )
-        return simulate(
-            st, swings(p, idx), conditions, serve=np.tile(serve[idx], reps), record=record
-        )
-
-    def first(p, idx):
-        # the residual's part of the chain: the receiver's height needs the bounce, the rest
-        # only the flight to the first bounce
-        if extra is not None and extra_key == "receiver_height_m":
-            return run(p, idx).metrics
-        reps = p.shape[0] // len(idx)
-        st = BallState(
-            *(np.tile(a[idx], (reps, 1)) for a in (state.position, state.velocity, state.spin))
-        )
-        return struck(st, swings(p, idx), conditions, np.tile(serve[idx], reps))
-
-    def evaluate(p, idx):
-        reps = p.shape[0] // len(idx)
-        m = first(p, idx)
-        out = [
-            (finite(m["flight_ground_x_m"], -30.0) - np.tile(tx[idx], reps)) / LAND_TOL_M,
-            (finite(m["flight_ground_y_m"], 0.0) - np.tile(ty[idx], reps)) / LAND_TOL_M,
-        ]
-        if extra is not None:
-            miss = (height_value(m, extra_key) - np.tile(extra[idx], reps)) / HEIGHT_TOL_M
-            out.append(miss if active is None else np.where(np.tile(has_extra[idx], reps), miss, 0))
-        return np.stack(out, axis=1)
-
+    goal = (extra, extra_key, active, has_extra)
+    system = _StrokeSystem(state, base, serve, conditions, names, tx, ty, goal)
     p0 = np.stack([getattr(base, k) for k in names], axis=1).astype(float)
     x0, y0 = state.position[:, 0], state.position[:, 1]
     p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
     p0 = np.clip(p0, lo, hi)
-    p, ok, iters = solve(evaluate, p0, lo, hi, scale, method=method, active=active)
+    p, ok, iters = solve(system.evaluate, p0, lo, hi, scale, method=method, active=active)
     every = np.arange(n)
-    result = run(p, every, record=True) if play else None
-    m = result.metrics if play else first(p, every)
+    result = system.run(p, every, record=True) if play else None
+    m = result.metrics if play else system.first(p, every)
     ok = ok & ~np.isin(m["outcome"], ("net", "miss"))
     reason = _reasons(m, ok, tx, p, lo, hi, names, extra_key if extra is not None else None, active)
     settings = {name: p[:, j] for j, name in enumerate(names)}
-    return AimResult(settings, ok, reason, result, tx, ty, iters, metrics=m, swing=swings(p, every))
+    swing = system.swings(p, every)
+    return AimResult(settings, ok, reason, result, tx, ty, iters, metrics=m, swing=swing)
+
+
+class _StrokeSystem:
+    """The N aiming systems of :func:`aim_stroke`: the swings of parameters ``p`` for the
+    targets ``idx`` (stacked ``len(p) // len(idx)`` times), the shots they play and the
+    residuals divided by their tolerances."""
+
+    def __init__(self, state, base, serve, conditions, names, tx, ty, goal):
+        self.state, self.base, self.serve, self.conditions = state, base, serve, conditions
+        self.names, self.tx, self.ty = names, tx, ty
+        # the third goal: values, metric key, which targets have one (active, has_extra)
+        self.extra, self.extra_key, self.active, self.has_extra = goal
+        self.offset = base.face_azimuth - base.swing_direction
+
+    def swings(self, p, idx):
+        reps = p.shape[0] // len(idx)
+        fields = {f: np.tile(getattr(self.base, f)[idx], reps) for f in Swing.FIELDS}
+        for j, name in enumerate(self.names):
+            fields[name] = p[:, j]
+        fields["face_azimuth"] = fields["swing_direction"] + np.tile(self.offset[idx], reps)
+        return Swing(**fields)
+
+    def _balls(self, idx, reps):
+        s = self.state
+        return BallState(*(np.tile(a[idx], (reps, 1)) for a in (s.position, s.velocity, s.spin)))
+
+    def run(self, p, idx, record=False):
+        reps = p.shape[0] // len(idx)
+        serve = np.tile(self.serve[idx], reps)
+        return simulate(
+            self._balls(idx, reps), self.swings(p, idx), self.conditions, serve=serve,
+            record=record,
+        )  # fmt: skip
+
+    def first(self, p, idx):
+        # the residual's part of the chain: the receiver's height needs the bounce, the rest
+        # only the flight to the first bounce
+        if self.extra is not None and self.extra_key == "receiver_height_m":
+            return self.run(p, idx).metrics
+        reps = p.shape[0] // len(idx)
+        serve = np.tile(self.serve[idx], reps)
+        return struck(self._balls(idx, reps), self.swings(p, idx), self.conditions, serve)
+
+    def evaluate(self, p, idx):
+        reps = p.shape[0] // len(idx)
+        m = self.first(p, idx)
+        out = [
+            (finite(m["flight_ground_x_m"], -30.0) - np.tile(self.tx[idx], reps)) / LAND_TOL_M,
+            (finite(m["flight_ground_y_m"], 0.0) - np.tile(self.ty[idx], reps)) / LAND_TOL_M,
+        ]
+        if self.extra is not None:
+            target = np.tile(self.extra[idx], reps)
+            miss = (height_value(m, self.extra_key) - target) / HEIGHT_TOL_M
+            if self.active is not None:
+                miss = np.where(np.tile(self.has_extra[idx], reps), miss, 0)
+            out.append(miss)
+        return np.stack(out, axis=1)
 
 
 def _batch(incoming, stroke, which, n):
