@@ -166,10 +166,7 @@ def _parts(sc, result, scene_result, sweep, window, drill, caution):
     main = display_label(result.labels[0])
     parts = [_section("story", "The scenario", story_html(sc))]
     if sc.incoming and caution:
-        parts.append(
-            f'<p class="caution"><b>Feeding this ball.</b> {html.escape(caution)} Defer to local '
-            "rules and qualified coaching practice.</p>"
-        )
+        parts.append(f'<p class="caution"><b>Feeding this ball.</b> {html.escape(caution)}</p>')
     parts.append(_section("table", "The strokes side by side", table_html(result)))
     views = _figure(
         svg(plots.side_view(result), "side view"),
