@@ -28,25 +28,11 @@ _ENTRY_POINTS = {
     "BallState": ("rallyarc.shot", "BallState"),
     "feed_ball": ("rallyarc.feed", "feed_ball"),
     "play_rallies": ("rallyarc.rally", "play_rallies"),
+    "load_scenario": ("rallyarc.domain", "load_scenario"),
+    "load_stroke": ("rallyarc.domain", "load_stroke"),
 }
 
-__all__ = sorted([*_ENTRY_POINTS, "load_scenario", "load_stroke"])
-
-
-def load_scenario(name):
-    """A scenario (:class:`rallyarc.domain.Scenario`: conditions, strokes, incoming ball) from
-    a preset name (``"demo"``, ``"serve_demo"``) or a TOML file of the same keys."""
-    from rallyarc import domain
-
-    return domain.load_scenario(name)
-
-
-def load_stroke(name):
-    """A stroke (:class:`rallyarc.domain.Stroke`, SI) from a preset name
-    (``"topspin_drive"``) or a TOML file of the same keys."""
-    from rallyarc import domain
-
-    return domain.load_stroke(name)
+__all__ = sorted(_ENTRY_POINTS)
 
 
 def __getattr__(name):

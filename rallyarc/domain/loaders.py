@@ -23,6 +23,7 @@ from rallyarc.domain.objects import (
     Stroke,
     Toss,
 )
+from rallyarc.errors import InputError
 from rallyarc.flight.air import air_density, isa_temperature_pressure
 from rallyarc.impact.racket import Racket
 from rallyarc.impact.strings import DEFAULT_STRING_TANGENTIAL_RESTITUTION
@@ -146,6 +147,8 @@ def stroke_from_dict(data, name="custom"):
 
 
 def load_stroke(name):
+    """A stroke (:class:`Stroke`, SI) from a preset name (``"topspin_drive"``) or a TOML file
+    of the same keys."""
     data = config.load("strokes", name)
     if data["kind"] == "serve" and "toss" not in data:
         raise config.InputError(f"{data['where']}: a serve needs a [toss] table")
@@ -153,8 +156,8 @@ def load_stroke(name):
 
 
 def load_scenario(name):
-    from rallyarc.errors import InputError
-
+    """A scenario (:class:`Scenario`: conditions, strokes, incoming ball) from a preset name
+    (``"demo"``, ``"serve_demo"``) or a TOML file of the same keys."""
     data = config.load("scenarios", name)
     where = data["where"]
 
