@@ -299,9 +299,7 @@ def with_swing(stroke, **changes):
             f"unknown swing field {unknown[0]!r}; choose from {', '.join(SWING_FIELDS)}"
         )
     if "swing_direction" in changes:
-        changes["face_azimuth"] = (
-            stroke.face_azimuth - stroke.swing_direction + changes["swing_direction"]
-        )
+        stroke = stroke.turned(changes.pop("swing_direction"))
     return replace(stroke, **changes)
 
 

@@ -82,6 +82,16 @@ _INCOMING = {
     "sidespin_rpm": Key(float, -6000.0, 6000.0, required=False),
 }
 
+#: Where a scenario's stroke is sent: ``[[directions]]`` turns a stroke's swing (the face turns
+#: with it) to a direction [deg] from straight down the court (+ toward +y, the hitter's left),
+#: and names it as coaches do.
+DIRECTION_WORDS = ("crosscourt", "down the line", "down the middle", "inside-out", "inside-in")
+_DIRECTION = {
+    "stroke": Key(str),
+    "where": Key(str, choices=DIRECTION_WORDS),
+    "swing_direction_deg": Key(float, -45.0, 45.0),
+}
+
 _DRILL_BALL = {
     "label": Key(str),
     "target_m": Key("vector", -15.0, 15.0, length=2),
@@ -197,6 +207,7 @@ SCHEMAS = {
         "receiver_plane_m": Key(float, 0.0, 10.0, required=False),
         "strokes": Key("names"),
         "incoming": Key("table", table=_INCOMING, required=False),
+        "directions": Key("tables", table=_DIRECTION, required=False),
     },
     # studies (rallyarc.study): a base stroke or pattern pair and parameters over ranges; names
     # and ranges of the parameters are checked against the study kind in rallyarc.study.spec

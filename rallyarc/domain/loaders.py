@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import functools
 import math
+from dataclasses import replace
 
 import numpy as np
 
@@ -184,6 +185,7 @@ def load_scenario(name):
                 f"{where}: stroke {stroke_name!r} needs an incoming ball: add an [incoming] table"
             )
         strokes.append(stroke)
+    strokes = _directed(strokes, data.get("directions", ()), where)
     return Scenario(
         name=data["name"],
         description=data["description"],
@@ -195,6 +197,22 @@ def load_scenario(name):
         source=data["source"],
         where=where,
     )
+
+
+def _directed(strokes, directions, where):
+    """The scenario's strokes with each ``[[directions]]`` entry applied: the stroke swung in
+    that direction (the face turning with it) and labelled with where it goes."""
+    names = [s.name for s in strokes]
+    for k, entry in enumerate(directions):
+        if entry["stroke"] not in names:
+            raise InputError(
+                f"{where}: key 'directions[{k}].stroke': {entry['stroke']!r} is not one of the "
+                f"scenario's strokes ({', '.join(names)})"
+            )
+        i = names.index(entry["stroke"])
+        turned = strokes[i].turned(math.radians(entry["swing_direction_deg"]))
+        strokes[i] = replace(turned, label=f"{strokes[i].label}, {entry['where']}")
+    return strokes
 
 
 def incoming_state(incoming):

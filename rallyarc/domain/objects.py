@@ -114,6 +114,12 @@ class Stroke:
     label: str = ""
     source: str = ""
 
+    def turned(self, swing_direction):
+        """This stroke swung in another direction [rad] (from +x toward +y); the face turns
+        with the swing, keeping its offset from the swing direction."""
+        face = self.face_azimuth - self.swing_direction + swing_direction
+        return replace(self, swing_direction=swing_direction, face_azimuth=face)
+
 
 @dataclass(frozen=True)
 class Conditions:
