@@ -3,8 +3,8 @@
 :func:`build_scene` assembles a :class:`pyvista.Plotter`; :func:`render_scene` renders it off
 screen to a PNG (no display needed: VTK renders through EGL or OSMesa), exports it as a glTF
 2.0 file (one file, buffers embedded, which any glTF viewer or web browser viewer opens without
-Python) or as one self-contained HTML page with its own small WebGL viewer
-(:mod:`viz.scene_html`), or opens an interactive window where a display exists.
+Python) or as one self-contained HTML page (the three.js view of :mod:`viz.webview`, the same
+as the coach's report), or opens an interactive window where a display exists.
 
 Like :mod:`viz.plots`, nothing here computes physics: paths are the recorded trajectories
 sampled, markers are the metrics of the result. The court frame is the project's (x toward the
@@ -176,8 +176,8 @@ def _marker(pv, kind, point, r):
 @dataclass(frozen=True)
 class ScenePage:
     """What a scene shows beside its meshes: the title, the legend (label and colour of each
-    stroke), the line that explains the markers, and the camera it opens with. The HTML
-    export (:mod:`viz.scene_html`) writes these on the page."""
+    stroke), the line that explains the markers, and the camera it opens with; the PNG draws
+    them as text and the HTML page takes its title from here."""
 
     title: str
     legend: list
@@ -283,14 +283,21 @@ def render_scene(
     if show and not has_display():
         raise ValueError("--show needs a display (none found: DISPLAY is not set)")
     written = None
+    html = export_path is not None and Path(export_path).suffix.lower() == ".html"
+    if html:
+        # the page is the three.js view of the coach's report; it needs no pyvista scene
+        from rallyarc.viz import webview
+
+        text = webview.scene_page(result, scene_page(result, camera).title, camera)
+        written = atomic_write(export_path, lambda tmp: Path(tmp).write_text(text, "utf-8"))
+        export_path = None
     if png_path is not None or export_path is not None:
         plotter = build_scene(result, camera=camera, window_size=window_size)
         try:
             if png_path is not None:
                 written = atomic_write(png_path, lambda tmp: plotter.screenshot(tmp))
             if export_path is not None:
-                page = scene_page(result, camera)
-                out = atomic_write(export_path, lambda tmp: _export(plotter, page, tmp))
+                out = atomic_write(export_path, lambda tmp: _export_gltf(plotter, tmp))
                 written = written or out
         finally:
             plotter.close()
@@ -300,16 +307,8 @@ def render_scene(
     return written
 
 
-def _export(plotter, page, path):
-    """glTF 2.0 with its buffers inline (.gltf), or a self-contained HTML page (.html) with the
-    scene's :class:`ScenePage`."""
-    if str(path).lower().endswith(".html"):
-        from rallyarc.viz.scene_html import page as html_page
-
-        text = html_page(plotter, page.title, page.legend, page.markers, CAMERAS, page.start)
-        with open(path, "w", encoding="utf-8") as fh:
-            fh.write(text)
-        return
+def _export_gltf(plotter, path):
+    """glTF 2.0 with its buffers inline (.gltf)."""
     plotter.export_gltf(str(path), inline_data=True, save_normals=True)
     _tidy_gltf(path, _mesh_names(plotter))
 
