@@ -167,3 +167,22 @@ def sheet_lines(drill, sheet, units="kmh"):
         )
     lines += ["", SAFETY]
     return lines
+
+
+def drill_trajectories(results, step):
+    """The trajectories of all balls of a drill in one table (a ``ball`` column from 1, in ball
+    and time order), and each ball's path on the court (x, y) by ball number."""
+    import numpy as np
+    import pandas as pd
+
+    frames, paths = [], {}
+    for idx, aim_result in results:
+        frame = aim_result.trajectory_frame(step)
+        frame["ball"] = np.asarray(idx)[frame["shot"].to_numpy()] + 1
+        frames.append(frame.drop(columns=["shot", "label"]))
+        for i in idx:
+            part = frame[frame["ball"] == i + 1]
+            paths[i + 1] = part[["x_m", "y_m"]].to_numpy()
+    table = pd.concat(frames).sort_values(["ball", "t_s"], kind="stable")
+    table = table[["ball"] + [c for c in table.columns if c != "ball"]].reset_index(drop=True)
+    return table, paths

@@ -133,7 +133,7 @@ def table_html(result):
         cells = []
         for _, rows in tables.SECTIONS:
             for key, unit, fmt in rows:
-                scale = tables._scale(key, unit)
+                scale = tables.display_scale(key, unit)
                 cells.append(f"<td>{html.escape(tables.cell(result, key, i, scale, fmt))}</td>")
         swatch = f'<span class="swatch" style="background:{colours[label]}"></span>'
         body.append(

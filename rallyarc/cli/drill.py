@@ -60,31 +60,12 @@ def drill(drill_file, out_dir, speed_units, dt, force, as_json):
     emit(data, as_json, lines)
 
 
-def _trajectories(results, step):
-    """The trajectories of all balls of a drill in one table (a ``ball`` column from 1, in ball
-    and time order), and each ball's path on the court (x, y) by ball number."""
-    import numpy as np
-    import pandas as pd
-
-    frames, paths = [], {}
-    for idx, aim_result in results:
-        frame = aim_result.trajectory_frame(step)
-        frame["ball"] = np.asarray(idx)[frame["shot"].to_numpy()] + 1
-        frames.append(frame.drop(columns=["shot", "label"]))
-        for i in idx:
-            part = frame[frame["ball"] == i + 1]
-            paths[i + 1] = part[["x_m", "y_m"]].to_numpy()
-    table = pd.concat(frames).sort_values(["ball", "t_s"], kind="stable")
-    table = table[["ball"] + [c for c in table.columns if c != "ball"]].reset_index(drop=True)
-    return table, paths
-
-
 def _write_drill(d, sheet, results, data, folder, step, speed_units):
-    from rallyarc.drill import SAFETY
+    from rallyarc.drill import SAFETY, drill_trajectories
     from rallyarc.output import export
     from rallyarc.viz.drill_sheet import drill_sheet
 
-    table, paths = _trajectories(results, step)
+    table, paths = drill_trajectories(results, step)
     fig = drill_sheet(d, sheet, paths, SAFETY, speed_units)
     written = [
         export.write_frame(folder / "drill_sheet.csv", sheet),

@@ -59,13 +59,12 @@ def _main_stroke(sc, strokes, incoming):
 
 
 def _drill(name):
-    from rallyarc.cli.drill import _trajectories
-    from rallyarc.drill import SAFETY, load_drill, solve_drill
+    from rallyarc.drill import SAFETY, drill_trajectories, load_drill, solve_drill
     from rallyarc.viz.report import DrillPart
 
     d = loaded("--drill", load_drill, name)
     sheet, results = solve_drill(d)
-    _, paths = _trajectories(results, 0.01)
+    _, paths = drill_trajectories(results, 0.01)
     return DrillPart(d, sheet, paths, SAFETY)
 
 

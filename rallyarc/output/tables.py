@@ -95,7 +95,7 @@ def row_label(key, unit=None):
     return name if shown in _NO_UNIT else f"{name} [{shown}]"
 
 
-def _scale(key, unit):
+def display_scale(key, unit):
     """The factor (or "deg") from a row's metric unit to ``unit``; None for labels and flags."""
     own = _name_and_unit(key[0] if isinstance(key, tuple) else key)[1]
     if own in ("text", "yes/no"):
@@ -141,7 +141,7 @@ def comparison_table(result, title=None):
     for heading, rows in SECTIONS:
         body.append([heading.upper()] + [""] * n)
         for key, unit, fmt in rows:
-            scale = _scale(key, unit)
+            scale = display_scale(key, unit)
             body.append(
                 [row_label(key, unit)] + [cell(result, key, i, scale, fmt) for i in range(n)]
             )
