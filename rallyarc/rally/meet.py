@@ -68,15 +68,15 @@ def _bisect(f, a, b, iterations=30):
 
 
 class _Path:
-    """The n balls' paths from their bounce (``t_b`` [s]) to a second bounce (``t_e``), columns
-    ``col`` of the flight after the bounce, and the receiver's reach along them."""
+    """The n balls' paths from their bounce (``t_b`` [s]) to a second bounce (``t_e``): their
+    recorded ``trajectory`` after the bounce (of these balls alone, so that sampling costs what
+    they cost), and the receiver's reach along them."""
 
-    def __init__(self, flight, col, t_b, receiver, start=None):
-        self.trajectory = flight.trajectory
-        self.col = col
+    def __init__(self, trajectory, t_e, t_b, receiver, start=None):
+        self.trajectory = trajectory
         self.t_b = t_b
-        self.t_e = flight.t[col]
-        self.n = col.size
+        self.t_e = t_e
+        self.n = t_e.size
         self.receiver = receiver
         # the receiver in the hitter's frame: home at (L/2 + behind, -y) (180 degree rotation)
         home = np.array([court.HALF_LENGTH + receiver.home_behind, -receiver.home_y])
@@ -85,10 +85,7 @@ class _Path:
 
     def sample(self, times):
         """Positions, velocities and spins of the n balls at times (M, n)."""
-        full = np.zeros((times.shape[0], self.trajectory.t.shape[1]))
-        full[:, self.col] = times
-        pos, vel, spin = self.trajectory.sample(full)
-        return pos[:, self.col], vel[:, self.col], spin[:, self.col]
+        return self.trajectory.sample(times)
 
     def feasible_parts(self, times, pos):
         """Within the height range after the bounce, not too deep, and within the run."""
@@ -106,9 +103,10 @@ class _Path:
         return h & d & mv
 
 
-def _target_time(path, apex_ev, radius):
-    """The time the receiver's timing names [s] and the time of the bounce's apex [s]."""
-    col, t_b = path.col, path.t_b
+def _target_time(path, apex_ev, col, radius):
+    """The time the receiver's timing names [s] and the time of the bounce's apex [s]
+    (``col``: the balls' columns in the flight whose apex event ``apex_ev`` is)."""
+    t_b = path.t_b
     t_apex = np.where(apex_ev.occurred[col], apex_ev.t[col], t_b)
     z_apex = np.where(apex_ev.occurred[col], apex_ev.position[col, 2], radius)
     receiver = path.receiver
@@ -218,8 +216,9 @@ def meet(result, balls, receiver, start=None):
         col = result.after_bounce.columns(balls)
     except ValueError:
         raise ValueError("every ball must have bounced") from None
-    path = _Path(after, col, result.metrics["bounce_t_s"][balls], receiver, start)
-    target, t_apex = _target_time(path, after.events["apex"], result.conditions.ball.radius)
+    trajectory = result.after_bounce.trajectory_of(balls)
+    path = _Path(trajectory, after.t[col], result.metrics["bounce_t_s"][balls], receiver, start)
+    target, t_apex = _target_time(path, after.events["apex"], col, result.conditions.ball.radius)
     t_c, found, grid, grid_pos = _nearest_within_reach(path, target)
     pos, vel, spin = (a[0] for a in path.sample(t_c[None, :]))
     reason = _unreached_reason(path, grid, grid_pos, found)
