@@ -8,7 +8,7 @@ One round, in named steps (each over every live rally at once, per hitter):
 3. Aim: the intended point in the shot's target zone, displaced by the aim scatter
    (:mod:`rallyarc.rally.choice`).
 4. Solve the swings: :func:`rallyarc.aim.aim_stroke` for every live rally at once, one call per
-   aim style, clearance and racket over both hitters and every stroke style
+   aim style and racket over both hitters, every stroke style and every clearance
    (:func:`_solve_swings`).
 5. Swing with scatter: the solved swing perturbed by the head-speed, face-tilt and swing-path
    scatter (normal), and played through the chain with :func:`rallyarc.shot.simulate`.
@@ -249,17 +249,24 @@ def _stacked_balls(members):
 
 
 def _solve_swings(turns):
-    """Step 4: one batched solve per aim style, clearance and racket, over both hitters (when
-    they play with the same racket), every stroke style and every live rally; fills each
-    turn's ``solved`` swing and ``reachable``."""
+    """Step 4: one batched solve per aim style and racket, over both hitters (when they play
+    with the same racket), every stroke style and every live rally, targets with a net
+    clearance to meet beside targets without one; fills each turn's ``solved`` swing and
+    ``reachable``."""
     groups = {}
     for t in turns:
         for j, s in enumerate(t.entries):
             k = np.flatnonzero(t.entry_of == j)
             if k.size:
-                groups.setdefault((s.aim, s.clearance, t.player.racket_name), []).append((t, k, s))
+                groups.setdefault((s.aim, t.player.racket_name), []).append((t, k, s))
     for members in groups.values():
         t0, _, s0 = members[0]
+        sizes = [k.size for _, k, _ in members]
+        clearance = None
+        if any(s.clearance is not None for _, _, s in members):
+            # NaN: that target has no clearance to meet (it solves as it would alone)
+            goals = [np.nan if s.clearance is None else s.clearance for _, _, s in members]
+            clearance = np.repeat(np.asarray(goals, float), sizes)
         res = aim_stroke(
             _stacked_balls(members),
             [s.stroke for _, _, s in members],
@@ -267,8 +274,8 @@ def _solve_swings(turns):
             np.concatenate([t.aimed[k, 0] for t, k, _ in members]),
             np.concatenate([t.aimed[k, 1] for t, k, _ in members]),
             free=s0.aim,
-            clearance=s0.clearance,
-            which=np.repeat(np.arange(len(members)), [k.size for _, k, _ in members]),
+            clearance=clearance,
+            which=np.repeat(np.arange(len(members)), sizes),
             play=False,
         )
         at = 0
