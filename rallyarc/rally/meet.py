@@ -87,6 +87,10 @@ class _Path:
         """Positions, velocities and spins of the n balls at times (M, n)."""
         return self.trajectory.sample(times)
 
+    def positions(self, times):
+        """Positions alone of the n balls at times (M, n), for the searches."""
+        return self.trajectory.sample_positions(times)
+
     def feasible_parts(self, times, pos):
         """Within the height range after the bounce, not too deep, and within the run."""
         r, t_b, start = self.receiver, self.t_b, self.start
@@ -116,7 +120,7 @@ def _target_time(path, apex_ev, col, radius):
     high = z_apex > mid
 
     def above(t):
-        return path.sample(t[None, :])[0][0, :, 2] >= mid
+        return path.positions(t[None, :])[0, :, 2] >= mid
 
     if receiver.timing == "rise":
         cross = _bisect(above, t_b.copy(), t_apex.copy())
@@ -132,7 +136,7 @@ def _nearest_within_reach(path, target):
     frac = np.linspace(0.0, 1.0, PATH_SAMPLES)[:, None]
     grid = t_b[None, :] + frac * (path.t_e - t_b)[None, :]
     times = np.concatenate([grid, target[None, :]])
-    pos, _, _ = path.sample(times)
+    pos = path.positions(times)
     grid_pos = pos[:-1]
     ok = path.feasible(times, pos)
     at_target = ok[-1]
@@ -152,7 +156,7 @@ def _nearest_within_reach(path, target):
         def ok_at(t):
             full = t_c.copy()
             full[r] = t
-            p, _, _ = path.sample(full[None, :])
+            p = path.positions(full[None, :])
             return path.feasible(full[None, :], p)[0, r]
 
         t_c[r] = _bisect(ok_at, t_c[r].copy(), t_nb[r].copy(), iterations=20)
