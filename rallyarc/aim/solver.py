@@ -126,12 +126,14 @@ def _pinned(jac, active):
     if active.all():
         return jac
     jac = np.where(active[:, None, :], jac, 0.0)
-    m, k = active.shape
-    for i in np.flatnonzero(~active.all(axis=1)):
-        off = np.flatnonzero(~active[i])
-        rows = np.arange(k - off.size, k)
-        jac[i, rows, :] = 0.0
-        jac[i, rows, off] = 1.0
+    k = active.shape[1]
+    off = ~active
+    count = off.sum(axis=1)
+    # a system's j inactive parameters take its last j rows, in parameter order
+    jac[np.arange(k)[None, :] >= (k - count)[:, None]] = 0.0
+    i, j = np.nonzero(off)
+    rows = k - count[i] + (np.cumsum(off, axis=1) - 1)[i, j]
+    jac[i, rows, j] = 1.0
     return jac
 
 
