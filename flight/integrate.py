@@ -142,6 +142,19 @@ class Trajectory:
         spin = self.spin0[None, :, :] * decay[..., None]
         return pos, vel, spin
 
+    def take(self, cols):
+        """The knots of some of the balls (indices ``cols``), as a trajectory of their own:
+        sampling it costs what those balls cost."""
+        return Trajectory(
+            self.t[:, cols],
+            self.position[:, cols],
+            self.velocity[:, cols],
+            self.acceleration[:, cols],
+            self.spin0[cols],
+            self.t0[cols],
+            self.spin_decay_rate,
+        )
+
     def sample_positions(self, times):
         """Positions alone at ``times`` ``(M,)`` or ``(M, N)`` [s], as :meth:`sample` gives
         them, at less cost (for searches over many sample times). Returns ``(M, N, 3)``."""

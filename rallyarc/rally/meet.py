@@ -83,6 +83,14 @@ class _Path:
         self.start = np.tile(home, (self.n, 1)) if start is None else np.asarray(start, float)
         self.deepest = court.HALF_LENGTH + receiver.deepest_behind
 
+    def subset(self, cols):
+        """The paths of some of the balls (indices ``cols``)."""
+        part = _Path.__new__(_Path)
+        part.trajectory = self.trajectory.take(cols)
+        part.t_b, part.t_e, part.start = self.t_b[cols], self.t_e[cols], self.start[cols]
+        part.n, part.receiver, part.deepest = cols.size, self.receiver, self.deepest
+        return part
+
     def sample(self, times):
         """Positions, velocities and spins of the n balls at times (M, n)."""
         return self.trajectory.sample(times)
@@ -130,26 +138,39 @@ def _target_time(path, apex_ev, col, radius):
 
 
 def _nearest_within_reach(path, target):
-    """The contact time [s] within reach nearest to ``target``, whether there is one, and the
-    sampled path ``(grid, grid_pos)`` it was searched on."""
+    """The contact time [s] within reach nearest to ``target``, whether there is one, and why
+    not where there is none: the target itself where it is within reach, else a search of the
+    sampled path of the other balls (:func:`_search`)."""
+    at_target = path.feasible(target[None, :], path.positions(target[None, :]))[0]
+    t_c, found = target.copy(), at_target.copy()
+    reason = np.full(path.n, "", dtype=object)
+    rest = np.flatnonzero(~at_target)
+    if rest.size:
+        part = path.subset(rest)
+        t_c[rest], found[rest], grid, grid_pos = _search(part, target[rest])
+        reason[rest] = _unreached_reason(part, grid, grid_pos, found[rest])
+    return t_c, found, reason.astype(str)
+
+
+def _search(path, target):
+    """For balls whose target point is out of reach: the time within reach nearest to it on
+    the path sampled at :data:`PATH_SAMPLES` points, refined by bisection toward the target;
+    whether there is one; and the sampled path ``(grid, grid_pos)``."""
     n, t_b, cols = path.n, path.t_b, np.arange(path.n)
     frac = np.linspace(0.0, 1.0, PATH_SAMPLES)[:, None]
     grid = t_b[None, :] + frac * (path.t_e - t_b)[None, :]
-    times = np.concatenate([grid, target[None, :]])
-    pos = path.positions(times)
-    grid_pos = pos[:-1]
-    ok = path.feasible(times, pos)
-    at_target = ok[-1]
-    gap = np.where(ok[:-1], np.abs(grid - target[None, :]), np.inf)
+    grid_pos = path.positions(grid)
+    ok = path.feasible(grid, grid_pos)
+    gap = np.where(ok, np.abs(grid - target[None, :]), np.inf)
     j = np.argmin(gap, axis=0)
-    found = at_target | np.isfinite(gap[j, cols])
-    t_c = np.where(at_target, target, grid[j, cols])
+    found = np.isfinite(gap[j, cols])
+    t_c = grid[j, cols]
 
     # refine toward the target: bisect between the feasible sample and its neighbour
     step = np.where(grid[j, cols] < target, 1, -1)
     nb = np.clip(j + step, 0, PATH_SAMPLES - 1)
     t_nb = grid[nb, cols]
-    refine = found & ~at_target & ~ok[nb, np.arange(n)] & (nb != j)
+    refine = found & ~ok[nb, np.arange(n)] & (nb != j)
     if refine.any():
         r = np.flatnonzero(refine)
 
@@ -223,9 +244,8 @@ def meet(result, balls, receiver, start=None):
     trajectory = result.after_bounce.trajectory_of(balls)
     path = _Path(trajectory, after.t[col], result.metrics["bounce_t_s"][balls], receiver, start)
     target, t_apex = _target_time(path, after.events["apex"], col, result.conditions.ball.radius)
-    t_c, found, grid, grid_pos = _nearest_within_reach(path, target)
+    t_c, found, reason = _nearest_within_reach(path, target)
     pos, vel, spin = (a[0] for a in path.sample(t_c[None, :]))
-    reason = _unreached_reason(path, grid, grid_pos, found)
     phase = np.where(
         np.abs(t_c - t_apex) <= APEX_WINDOW_S, "apex", np.where(t_c < t_apex, "rise", "drop")
     )

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -40,7 +40,7 @@ class Phase:
     def trajectory_of(self, shots):
         """The recorded trajectory of some of the result's shots ``shots`` (indices), as a
         trajectory of their own: sampling it costs what those shots cost."""
-        return _columns(self.flight.trajectory, self.columns(shots))
+        return self.flight.trajectory.take(self.columns(shots))
 
 
 @dataclass
@@ -108,13 +108,13 @@ class ShotResult:
         times = np.asarray(times, float)
         shots = np.arange(len(self)) if shots is None else np.asarray(shots, int).reshape(-1)
         before = self.before_bounce
-        pos, vel, spin = _columns(before.flight.trajectory, before.columns(shots)).sample(times)
+        pos, vel, spin = before.trajectory_of(shots).sample(times)
         end0, end1 = (e[shots] for e in self.phase_ends())
         phase = np.where(times[:, None] <= end0[None, :], 0, -1)
         after = self.after_bounce
         j = np.flatnonzero(np.isin(shots, after.shots)) if after is not None else []
         if len(j):
-            sub = _columns(after.flight.trajectory, after.columns(shots[j]))
+            sub = after.trajectory_of(shots[j])
             p2, v2, s2 = sub.sample(times)
             late = (times[:, None] > end0[None, j]) & (times[:, None] <= end1[None, j])
             rows, cols = np.nonzero(late)
@@ -273,16 +273,3 @@ def _plain(value):
 
 def _nan(n):
     return np.full(n, np.nan)
-
-
-def _columns(trajectory, cols):
-    """The knots of some balls of a trajectory, as a trajectory of their own."""
-    return replace(
-        trajectory,
-        t=trajectory.t[:, cols],
-        position=trajectory.position[:, cols],
-        velocity=trajectory.velocity[:, cols],
-        acceleration=trajectory.acceleration[:, cols],
-        spin0=trajectory.spin0[cols],
-        t0=trajectory.t0[cols],
-    )
