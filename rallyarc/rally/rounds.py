@@ -270,6 +270,9 @@ def _solve_swings(turns):
             clearance=s0.clearance,
             which=np.repeat(np.arange(len(members)), [k.size for _, k, _ in members]),
             play=False,
+            # rallies solve many batches: the compiled first flight (numpy for aero models
+            # without a compiled form)
+            engine="compiled",
         )
         at = 0
         for t, k, _ in members:
