@@ -7,7 +7,7 @@ import math
 
 import numpy as np
 
-from rallyarc.aim.first import struck
+from rallyarc.aim.first import ENGINES, struck
 from rallyarc.aim.solver import (
     HEIGHT_TOL_M,
     LAND_TOL_M,
@@ -39,6 +39,7 @@ def aim_stroke(
     which=None,
     method="newton",
     play=True,
+    engine="numpy",
 ):
     """Solve a stroke's free swing parameters so that the ball lands on target.
 
@@ -69,6 +70,11 @@ def aim_stroke(
         ``result`` is None and the verdicts come from the flight to the first bounce alone
         (``swing`` and ``metrics`` of the result hold the solved swings and that flight's
         metrics), for callers that play the shot themselves.
+    engine : {"numpy", "compiled"}
+        The integrator of the residual's first flight (:mod:`rallyarc.aim.first`): numpy, or
+        the numba-compiled kernel, for callers that solve many batches and can pay for its
+        compile (or cache load) on first use. The residuals that need the bounce (a receiver
+        height) and the shots played for ``result`` use numpy.
 
     Returns
     -------
@@ -76,6 +82,8 @@ def aim_stroke(
     """
     if free not in STYLES:
         raise ValueError(f"free must be one of {', '.join(STYLES)}")
+    if engine not in ENGINES:
+        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
     if clearance is not None and receiver_height is not None:
         raise ValueError("give a net clearance or a receiver height, not both")
     tx, ty = np.broadcast_arrays(
@@ -98,7 +106,7 @@ def aim_stroke(
     hi = np.array([_SWING_BOUNDS[k][1] for k in names])
     scale = np.array([_SWING_BOUNDS[k][2] for k in names])
     goal = (extra, extra_key, active, has_extra)
-    system = _StrokeSystem(state, base, serve, conditions, names, tx, ty, goal)
+    system = _StrokeSystem(state, base, serve, conditions, names, tx, ty, goal, engine)
     p0 = np.stack([getattr(base, k) for k in names], axis=1).astype(float)
     x0, y0 = state.position[:, 0], state.position[:, 1]
     p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
@@ -119,8 +127,9 @@ class _StrokeSystem:
     targets ``idx`` (stacked ``len(p) // len(idx)`` times), the shots they play and the
     residuals divided by their tolerances."""
 
-    def __init__(self, state, base, serve, conditions, names, tx, ty, goal):
+    def __init__(self, state, base, serve, conditions, names, tx, ty, goal, engine="numpy"):
         self.state, self.base, self.serve, self.conditions = state, base, serve, conditions
+        self.engine = engine
         self.names, self.tx, self.ty = names, tx, ty
         # the third goal: values, metric key, which targets have one (active, has_extra)
         self.extra, self.extra_key, self.active, self.has_extra = goal
@@ -153,7 +162,8 @@ class _StrokeSystem:
             return self.run(p, idx).metrics
         reps = p.shape[0] // len(idx)
         serve = np.tile(self.serve[idx], reps)
-        return struck(self._balls(idx, reps), self.swings(p, idx), self.conditions, serve)
+        balls, swings = self._balls(idx, reps), self.swings(p, idx)
+        return struck(balls, swings, self.conditions, serve, engine=self.engine)
 
     def evaluate(self, p, idx):
         reps = p.shape[0] // len(idx)

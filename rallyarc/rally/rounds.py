@@ -277,6 +277,9 @@ def _solve_swings(turns):
             clearance=clearance,
             which=np.repeat(np.arange(len(members)), sizes),
             play=False,
+            # rallies solve many batches: the compiled first flight (numpy for aero models
+            # without a compiled form)
+            engine="compiled",
         )
         at = 0
         for t, k, _ in members:

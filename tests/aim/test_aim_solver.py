@@ -116,3 +116,56 @@ def test_an_unknown_method_is_refused():
     sc, inc, strokes, which, tx, ty = _cases(2)
     with pytest.raises(ValueError, match="method"):
         aim_stroke(inc, strokes, sc.conditions, tx, ty, which=which, method="guess")
+
+
+def test_the_compiled_first_flight_gives_the_numpy_aims_verdicts_and_landings():
+    # the rally's engine: the residual's first flight compiled (rallyarc.flight.compiled), the
+    # same algorithm as numpy's to about 1e-12; the solves must end with the same verdicts
+    # and land within 1e-6 m of each other on thousands of targets
+    sc, inc, strokes, which, tx, ty = _cases(2000)
+    kw = {"which": which, "play": False}
+    ref = aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="numpy", **kw)
+    got = aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="compiled", **kw)
+    assert 0.2 < ref.reachable.mean() < 1.0  # both verdicts occur
+    assert np.array_equal(got.reachable, ref.reachable)
+    assert np.array_equal(got.reason, ref.reason)
+    land_ref, land_got = ref.landing(), got.landing()
+    assert np.array_equal(np.isnan(land_got), np.isnan(land_ref))
+    apart = np.hypot(*(land_got - land_ref).T)
+    assert np.nanmax(apart) <= 1e-6
+
+
+def test_the_compiled_engine_flies_with_numpy_when_the_aero_model_has_no_compiled_form(
+    monkeypatch,
+):
+    from rallyarc.aim.first import _flight
+    from rallyarc.flight import compiled
+    from rallyarc.flight.forces import FlightParams
+
+    class OtherAero:
+        def drag(self, s):
+            return np.full_like(np.asarray(s, dtype=float), 0.5)
+
+        def lift_slope(self, s):
+            return np.full_like(np.asarray(s, dtype=float), 1.0)
+
+    _, inc, _, _, _, _ = _cases(50)
+    calls = []
+    kernel = compiled.fly_net_and_ground
+    monkeypatch.setattr(
+        compiled, "fly_net_and_ground", lambda *a, **k: calls.append(1) or kernel(*a, **k)
+    )
+    supported = domain.load_scenario("demo").conditions.flight_params()
+    _flight(inc, supported, 1e-6, engine="compiled")
+    assert calls == [1]  # a supported model flies compiled
+    other = FlightParams(mass=supported.mass, radius=supported.radius, aero=OtherAero())
+    got = _flight(inc, other, 1e-6, engine="compiled")
+    want = _flight(inc, other, 1e-6, engine="numpy")
+    assert calls == [1]  # the other model did not reach the kernel
+    assert np.array_equal(got.events["ground"].position, want.events["ground"].position)
+    assert np.array_equal(got.n_steps, want.n_steps)
+    with pytest.raises(ValueError, match="engine"):
+        _flight(inc, supported, 1e-6, engine="fast")
+    sc, inc2, strokes, which, tx, ty = _cases(2)
+    with pytest.raises(ValueError, match="engine"):
+        aim_stroke(inc2, strokes, sc.conditions, tx, ty, which=which, engine="fast")
