@@ -2,9 +2,14 @@
 
 The rally rows play the demo pattern pair (``demo_match``) with one process; the batch row plays
 seeded random whole shots (rallyarc.batch.RandomShots) in the demo scenario's conditions with one
-process. The last line is rally shots/s over batch shots/s.
+process. A last rally row plays ``--many`` rallies (10,000 by default) over every core, as
+``rallyarc rally`` does by default. The last line is rally shots/s over batch shots/s, one core.
 
-Run: python benchmarks/rally.py [--rallies 2000] [--shots 100000] [--seed 1]
+Rallies fly the aim solver's first flights with the compiled kernel (rallyarc.flight.compiled);
+a warm-up of a few rallies before the timed rows loads it (or compiles it, the first time after
+an install), so no row pays for the compile.
+
+Run: python benchmarks/rally.py [--rallies 2000] [--shots 100000] [--many 10000] [--seed 1]
 """
 
 from __future__ import annotations
@@ -23,10 +28,11 @@ def _parse(argv):
     p = argparse.ArgumentParser(description="Rally shots/s beside batch shots/s, one core.")
     p.add_argument("--rallies", type=int, default=2000, help="rallies to play (default 2000)")
     p.add_argument("--shots", type=int, default=100_000, help="batch shots (default 100000)")
+    p.add_argument("--many", type=int, default=10_000, help="rallies over every core (0: skip)")
     p.add_argument("--seed", type=int, default=1)
     args = p.parse_args(argv)
-    if args.rallies < 1 or args.shots < 1:
-        sys.stderr.write("rally.py: error: --rallies and --shots must be at least 1\n")
+    if args.rallies < 1 or args.shots < 1 or args.many < 0:
+        sys.stderr.write("rally.py: error: --rallies, --shots at least 1; --many 0 or more\n")
         sys.exit(2)
     return args
 
@@ -38,6 +44,9 @@ def main(argv=None):
         f"at start {os.getloadavg()[0]:.2f} (other work on the machine slows every row)"
     )
     patterns = load_patterns("demo_match")
+    start = time.perf_counter()
+    play_rallies(patterns, n=20, seed=args.seed + 1, workers=1)  # loads the compiled kernel
+    warm_s = time.perf_counter() - start
     start = time.perf_counter()
     run = play_rallies(patterns, n=args.rallies, seed=args.seed, workers=1)
     rally_s = time.perf_counter() - start
@@ -52,6 +61,16 @@ def main(argv=None):
     print(f"{'rally engine: rallies':<28} {args.rallies:>9d} {rally_s:>9.2f} {rallies_rate:>12.0f}")
     print(f"{'rally engine: shots':<28} {shots:>9d} {rally_s:>9.2f} {rally_rate:>12.0f}")
     print(f"{'batch engine: whole shots':<28} {args.shots:>9d} {batch_s:>9.2f} {batch_rate:>12.0f}")
+    if args.many:
+        cores = os.cpu_count() or 1
+        start = time.perf_counter()
+        many = play_rallies(patterns, n=args.many, seed=args.seed, workers=cores)
+        many_s = time.perf_counter() - start
+        label = f"rally engine: rallies, {cores} proc."
+        print(f"{label:<28} {args.many:>9d} {many_s:>9.2f} {args.many / many_s:>12.0f}")
+        label = f"rally engine: shots, {cores} proc."
+        print(f"{label:<28} {len(many.shots):>9d} {many_s:>9.2f} {len(many.shots) / many_s:>12.0f}")
+    print(f"warm-up (20 rallies, loading or compiling the kernel): {warm_s:.2f} s")
     print(f"load average at the end {os.getloadavg()[0]:.2f}")
     print(f"rally shots/s / batch shots/s (one core): {rally_rate / batch_rate:.3f}")
 
