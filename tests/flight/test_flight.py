@@ -4,6 +4,7 @@ import numpy as np
 import pytest
 from scipy.integrate import solve_ivp
 
+from rallyarc import kinematics
 from rallyarc.flight.aero import ConstantAero, StepanekAero, get_aero_model
 from rallyarc.flight.air import air_density, isa_density
 from rallyarc.flight.forces import FlightParams, acceleration
@@ -18,16 +19,8 @@ def random_shots(n, seed):
     speed = rng.uniform(20, 70, n)
     elev = np.radians(rng.uniform(-10, 30, n))
     azim = np.radians(rng.uniform(-10, 10, n))
-    v = np.stack(
-        [
-            speed * np.cos(elev) * np.cos(azim),
-            speed * np.cos(elev) * np.sin(azim),
-            speed * np.sin(elev),
-        ],
-        axis=1,
-    )
-    axis = rng.normal(size=(n, 3))
-    axis /= np.linalg.norm(axis, axis=1)[:, None]
+    v = kinematics.velocity(speed, elev, azim)
+    axis = kinematics.unit(rng.normal(size=(n, 3)))
     w = axis * rng.uniform(0, 5000, n)[:, None] * RPM
     x = np.tile([-11.885, 0.0, 1.0], (n, 1))
     return x, v, w
