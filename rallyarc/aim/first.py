@@ -25,21 +25,13 @@ from rallyarc.shot import BallState
 _LEFT_OUT = ("flight_peak_m", "flight_peak_x_m")
 
 
-ENGINES = ("numpy", "compiled")
+ENGINES = stages.ENGINES
 
 
 def _flight(start, params, rtol, engine="numpy"):
     """The first flight with the net and the ground only; the events left out are recorded as
     never met, so that the chain's stage functions can read the result."""
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
-    compiled = None
-    if engine == "compiled":
-        # imported here: numba loads only for the callers that ask for it
-        from rallyarc.flight import compiled
-
-        if not compiled.supports(params):
-            compiled = None
+    compiled = stages.compiled_flight(params, engine)
     if compiled is not None:
         first = compiled.fly_net_and_ground(
             start.position, start.velocity, start.spin, params, t_max=stages.T_MAX, rtol=rtol

@@ -306,7 +306,16 @@ def _play_turn(turn, draws, limit):
     """Steps 5 to 7: swing, play the chain, meet the balls that landed in, judge the results."""
     swing = _scattered_swing(turn, draws.swing[turn.live])
     labels = np.array([s.label for s in turn.entries])[turn.entry_of]
-    result = simulate(turn.ball, swing, turn.player.conditions, labels=labels, serve=turn.serve)
+    # rallies play many batches: the compiled flights (numpy for aero models without a
+    # compiled form)
+    result = simulate(
+        turn.ball,
+        swing,
+        turn.player.conditions,
+        labels=labels,
+        serve=turn.serve,
+        engine="compiled",
+    )
     landed_in = result.metrics["outcome"] == "in"
     li = np.flatnonzero(landed_in)
     contact = meet(result, li, turn.receiver, turn.receiver_at[li])

@@ -27,7 +27,16 @@ def _names(labels, n):
     return np.broadcast_to(labels, (n,)).astype(str)
 
 
-def simulate(incoming, swing, conditions, labels=None, serve=None, record=True, rtol=1e-6):
+def simulate(
+    incoming,
+    swing,
+    conditions,
+    labels=None,
+    serve=None,
+    record=True,
+    rtol=1e-6,
+    engine="numpy",
+):
     """Play N shots through the whole chain in one vectorized call.
 
     Parameters
@@ -46,6 +55,11 @@ def simulate(incoming, swing, conditions, labels=None, serve=None, record=True, 
         Keep trajectories for dense output (plots, tables). Metrics need no recording.
     rtol : float
         Flight integrator tolerance.
+    engine : {"numpy", "compiled"}
+        Integrator of the flights (:data:`rallyarc.shot.stages.ENGINES`): numpy (default), or
+        the same algorithm compiled with numba, for callers that play many small batches and
+        can wait for the compile (or cache load) on first use; aero models without a compiled
+        form fly with numpy whatever the choice.
 
     Returns
     -------
@@ -59,7 +73,7 @@ def simulate(incoming, swing, conditions, labels=None, serve=None, record=True, 
     contact, impact_metrics = stages.impact(incoming, swing, conditions)
     start = BallState(incoming.position, contact.velocity, contact.spin)
     return _fly(
-        start, conditions, labels, serve, record, rtol, contact.approaching, impact_metrics
+        start, conditions, labels, serve, record, rtol, contact.approaching, impact_metrics, engine
     )._with(incoming=incoming, swing=swing)
 
 
@@ -77,14 +91,15 @@ def launch(start, conditions, labels=None, serve=None, record=True, rtol=1e-6):
     return _fly(start, conditions, labels, serve, record, rtol, np.ones(len(start), bool), m)
 
 
-def _fly(start, conditions, labels, serve, record, rtol, approaching, m):
+def _fly(start, conditions, labels, serve, record, rtol, approaching, m, engine="numpy"):
     """The stages after the racket, for balls launched from ``start``; ``m`` holds the launch
-    metrics and receives the rest."""
+    metrics and receives the rest; ``engine`` integrates the flights (as in :func:`simulate`)."""
     n = len(start)
     labels = _names(labels, n)
     serve = np.broadcast_to(np.asarray(False if serve is None else serve, bool), (n,))
     params = conditions.flight_params()
-    first = stages.first_flight(start, params, conditions, record, rtol)
+    stages.compiled_flight(params, engine)  # an unknown engine fails before any flight
+    first = stages.first_flight(start, params, conditions, record, rtol, engine)
     crossing, net_metrics = stages.net(first, start, approaching, conditions)
     m.update(net_metrics)
     land_metrics, bounced, end0 = stages.landing(
@@ -97,7 +112,9 @@ def _fly(start, conditions, labels, serve, record, rtol, approaching, m):
     second = None
     if idx.size:
         velocity, spin = stages.bounce(first, idx, conditions, m)
-        after = stages.second_flight(first, idx, velocity, spin, params, conditions, record, rtol)
+        after = stages.second_flight(
+            first, idx, velocity, spin, params, conditions, record, rtol, engine
+        )
         end1 = stages.after_bounce(after, idx, first, conditions.ball.radius, m)
         second = Phase(idx, after, end1)
     m["receiver_reached"] = np.isfinite(m["receiver_height_m"])

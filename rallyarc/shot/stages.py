@@ -24,6 +24,35 @@ from rallyarc.units import RPM
 #: Longest flight of one phase [s].
 T_MAX = 12.0
 
+#: Integrators of the flights: ``"numpy"`` is :func:`rallyarc.flight.integrate.fly`,
+#: ``"compiled"`` :mod:`rallyarc.flight.compiled`, the same algorithm compiled with numba.
+ENGINES = ("numpy", "compiled")
+
+
+def compiled_flight(params, engine):
+    """The compiled flight module when ``engine`` is ``"compiled"`` and the aero model of
+    ``params`` has a compiled form; None when the flight is numpy's (``"numpy"``, or a model
+    without a compiled form).
+
+    numba loads only for the callers that ask for the compiled engine; its first use in a
+    process compiles the kernels or loads them from numba's cache.
+    """
+    if engine not in ENGINES:
+        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
+    if engine != "compiled":
+        return None
+    from rallyarc.flight import compiled
+
+    return compiled if compiled.supports(params) else None
+
+
+def _fly(engine, position, velocity, spin, params, events, **kw):
+    """:func:`rallyarc.flight.integrate.fly`, or its compiled form (:func:`compiled_flight`)."""
+    compiled = compiled_flight(params, engine)
+    if compiled is None:
+        return fly(position, velocity, spin, params, events, **kw)
+    return compiled.fly_compiled(position, velocity, spin, params, events, **kw)
+
 
 def _angle_below(velocity):
     return np.degrees(np.arctan2(-velocity[:, 2], np.linalg.norm(velocity[:, :2], axis=1)))
@@ -89,16 +118,17 @@ def impact(incoming, swing, conditions):
     return contact, m
 
 
-def first_flight(start, params, conditions, record, rtol):
+def first_flight(start, params, conditions, record, rtol, engine="numpy"):
     """From the launch to the first touch of the ground, with the net's plane, the receiver's
-    plane and the flight's peak as events on the way."""
+    plane and the flight's peak as events on the way; ``engine`` one of :data:`ENGINES`."""
     events = [
         net_plane(1),
         _receiver_plane(conditions),
         apex("peak"),
         ground_contact(params.radius),
     ]
-    return fly(
+    return _fly(
+        engine,
         start.position,
         start.velocity,
         start.spin,
@@ -244,11 +274,13 @@ def bounce(first, idx, conditions, m):
     return res.velocity, res.spin
 
 
-def second_flight(first, idx, velocity, spin, params, conditions, record, rtol):
+def second_flight(first, idx, velocity, spin, params, conditions, record, rtol, engine="numpy"):
     """The free flight after the bounce to the second bounce, so that the apex is found even
-    where it lies beyond the receiver's plane (the shot's drawn path ends at that plane)."""
+    where it lies beyond the receiver's plane (the shot's drawn path ends at that plane);
+    ``engine`` one of :data:`ENGINES`."""
     events = [_receiver_plane(conditions), apex(), ground_contact(params.radius)]
-    return fly(
+    return _fly(
+        engine,
         first.position[idx],
         velocity,
         spin,

@@ -1,0 +1,93 @@
+"""The chain with its flights compiled (``simulate(..., engine="compiled")``) against the chain
+with numpy's flights, and rallies played with either.
+
+Reference: the chain with the numpy integrator (``engine="numpy"``, the default), whose flights
+are checked against solve_ivp elsewhere. The compiled flights run the same algorithm (see
+tests/flight/test_compiled.py), so every metric must agree: floats within ``TOL`` = 1e-9 (NaN
+where numpy's are NaN), strings and flags equal.
+"""
+
+import numpy as np
+import pytest
+
+from rallyarc import domain
+from rallyarc.flight.forces import FlightParams
+from rallyarc.shot import BallState, Swing, simulate, stages
+
+TOL = 1e-9
+
+
+def _shots(n, seed):
+    """n incoming balls scattered around the demo's, three stroke styles with scattered face
+    tilt, swing direction and head speed, a few serve flags."""
+    rng = np.random.default_rng(seed)
+    sc = domain.load_scenario("demo")
+    inc = BallState.of(*domain.incoming_state(sc.incoming))
+    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
+    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
+    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
+    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
+    strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
+    which = rng.integers(0, 3, n)
+    base = Swing.from_strokes(strokes)
+    fields = {f: getattr(base, f)[which] for f in Swing.FIELDS}
+    fields["face_tilt"] = fields["face_tilt"] + rng.normal(0.0, 0.15, n)
+    fields["swing_direction"] = rng.normal(0.0, 0.3, n)
+    fields["head_speed"] = fields["head_speed"] * rng.uniform(0.6, 1.3, n)
+    serve = rng.random(n) < 0.1
+    return sc.conditions, BallState(pos, vel, spin), Swing(**fields), serve
+
+
+def _assert_same_metrics(got, want):
+    assert set(got) == set(want)
+    for key, b in want.items():
+        a = got[key]
+        if b.dtype.kind == "f":
+            np.testing.assert_array_equal(np.isnan(a), np.isnan(b), err_msg=key)
+            np.testing.assert_allclose(a, b, rtol=0, atol=TOL, err_msg=key)
+        else:
+            np.testing.assert_array_equal(a, b, err_msg=key)
+
+
+@pytest.mark.parametrize("record", [True, False])
+def test_compiled_chain_gives_numpys_metrics_on_thousands_of_shots(record):
+    conditions, inc, swing, serve = _shots(3000, seed=21 if record else 22)
+    want = simulate(inc, swing, conditions, serve=serve, record=record)
+    got = simulate(inc, swing, conditions, serve=serve, record=record, engine="compiled")
+    _assert_same_metrics(got.metrics, want.metrics)
+    # the draw reaches the chain's branches: every outcome, bounces, receiver reached or not
+    outcome = want.metrics["outcome"]
+    assert {"in", "out", "net"} <= set(outcome)
+    assert want.metrics["bounce_occurred"].mean() > 0.2
+    reached = want.metrics["receiver_reached"]
+    assert reached.any() and not reached.all()
+    if record:
+        # the drawn paths: sampled at the same times, the same points
+        shots = np.flatnonzero(want.metrics["bounce_occurred"])[:200]
+        times = np.linspace(0.0, 3.0, 61)
+        for a, b in zip(got.sample(times, shots), want.sample(times, shots), strict=True):
+            if np.asarray(b).dtype.kind == "f":
+                np.testing.assert_allclose(a, b, rtol=0, atol=TOL)
+            else:
+                np.testing.assert_array_equal(a, b)
+
+
+def test_the_compiled_chain_flies_with_numpy_for_an_aero_model_without_a_compiled_form():
+    class OtherAero:
+        def drag(self, s):
+            return np.full_like(np.asarray(s, dtype=float), 0.5)
+
+        def lift_slope(self, s):
+            return np.full_like(np.asarray(s, dtype=float), 1.0)
+
+    params = FlightParams(aero=OtherAero())
+    supported = FlightParams()
+    assert stages.compiled_flight(params, "compiled") is None
+    assert stages.compiled_flight(supported, "numpy") is None
+    assert stages.compiled_flight(supported, "compiled") is not None
+    for engine in ("fast", None):
+        with pytest.raises(ValueError, match="engine"):
+            stages.compiled_flight(supported, engine)
+    conditions, inc, swing, serve = _shots(3, seed=1)
+    with pytest.raises(ValueError, match="engine"):
+        simulate(inc, swing, conditions, engine="fast")
