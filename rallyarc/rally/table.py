@@ -156,7 +156,9 @@ def shot_table(rows, start):
     numbered from ``start``, each rally ball's ``replying_to`` the shot type it answers."""
     import pandas as pd
 
-    shots = pd.concat([pd.DataFrame(r) for r in rows], ignore_index=True)
+    # one frame from each column's arrays joined (rounds hold the same columns, in order)
+    columns = {key: np.concatenate([r[key] for r in rows]) for key in rows[0]}
+    shots = pd.DataFrame(columns)
     shots["rally"] += start
     shots = shots.sort_values(["rally", "shot"], kind="stable").reset_index(drop=True)
     previous = shots.groupby("rally")["shot_type"].shift(1)
