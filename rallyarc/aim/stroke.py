@@ -27,6 +27,15 @@ _SWING_BOUNDS = {
 STYLES = {"tilt": ("face_tilt", "swing_direction"), "speed": ("head_speed", "swing_direction")}
 
 
+def free_parameters(free, third=False):
+    """The swing parameters an aim of style ``free`` solves, in the order of its settings: the
+    style's two, then (``third``: a clearance or height is asked) head speed or face tilt."""
+    names = list(STYLES[free])
+    if third:
+        names.append("head_speed" if free == "tilt" else "face_tilt")
+    return names
+
+
 def aim_stroke(
     incoming,
     stroke,
@@ -40,6 +49,7 @@ def aim_stroke(
     method="newton",
     play=True,
     engine="numpy",
+    start=None,
 ):
     """Solve a stroke's free swing parameters so that the ball lands on target.
 
@@ -65,6 +75,12 @@ def aim_stroke(
         For a sequence of K strokes: the index of each target's stroke.
     method : {"newton", "broyden"}
         The solver's Jacobian rule (:func:`rallyarc.aim.solver.solve`).
+    start : array (N, k), optional
+        Starting values of the free parameters (SI, in the order of ``settings``: the style's
+        two, then the third where a clearance or height is asked), for a caller that can guess
+        them (rallies learn them from the shots already solved). NaN entries, and the third
+        parameter of targets without a third goal, keep the default start: the stroke's own
+        values, with the swing direction toward the target.
     play : bool
         Play the solved shots through the whole chain, recorded, as ``result``; when false,
         ``result`` is None and the verdicts come from the flight to the first bounce alone
@@ -89,12 +105,11 @@ def aim_stroke(
     tx, ty = np.broadcast_arrays(
         np.atleast_1d(np.asarray(target_x, float)), np.atleast_1d(np.asarray(target_y, float))
     )
-    names = list(STYLES[free])
     extra = clearance if clearance is not None else receiver_height
+    names = free_parameters(free, third=extra is not None)
     extra_key = "net_clearance_m" if clearance is not None else "receiver_height_m"
     active = has_extra = None
     if extra is not None:
-        names.append("head_speed" if free == "tilt" else "face_tilt")
         extra = np.broadcast_to(np.asarray(extra, float), tx.shape)
         has_extra = np.isfinite(extra)
         if not has_extra.all():  # NaN: this target has no clearance or height to meet
@@ -110,6 +125,12 @@ def aim_stroke(
     p0 = np.stack([getattr(base, k) for k in names], axis=1).astype(float)
     x0, y0 = state.position[:, 0], state.position[:, 1]
     p0[:, names.index("swing_direction")] = np.arctan2(ty - y0, tx - x0)
+    if start is not None:
+        guess = np.asarray(start, float)
+        if guess.shape != p0.shape:
+            raise ValueError(f"start must be shaped {p0.shape}, not {guess.shape}")
+        use = np.isfinite(guess) if active is None else np.isfinite(guess) & active
+        p0 = np.where(use, guess, p0)
     p0 = np.clip(p0, lo, hi)
     p, ok, iters = solve(system.evaluate, p0, lo, hi, scale, method=method, active=active)
     every = np.arange(n)

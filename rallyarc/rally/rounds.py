@@ -9,7 +9,8 @@ One round, in named steps (each over every live rally at once, per hitter):
    (:mod:`rallyarc.rally.choice`).
 4. Solve the swings: :func:`rallyarc.aim.aim_stroke` for every live rally at once, one call per
    aim style and racket over both hitters, every stroke style and every clearance
-   (:func:`_solve_swings`).
+   (:func:`_solve_swings`), each starting from the block's guess of the solution, learned from
+   the swings it has solved so far (:mod:`rallyarc.rally.warm`).
 5. Swing with scatter: the solved swing perturbed by the head-speed, face-tilt and swing-path
    scatter (normal), and played through the chain with :func:`rallyarc.shot.simulate`.
 6. Meet: where the receiver meets each ball that landed in, running from where they stand
@@ -38,11 +39,13 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from rallyarc.aim import aim_stroke
+from rallyarc.aim.stroke import free_parameters
 from rallyarc.rally.choice import choose_shots, draw_targets, scatter_aim
 from rallyarc.rally.endings import ONGOING, forced, judge, point_winner
 from rallyarc.rally.frames import ENDS, to_other_end
 from rallyarc.rally.meet import Contact, meet, recover
 from rallyarc.rally.table import rally_table, shot_rows, shot_table
+from rallyarc.rally.warm import WarmStart
 from rallyarc.shot import BallState, ShotResult, Swing, simulate
 from rallyarc.units import RPM
 
@@ -248,11 +251,12 @@ def _stacked_balls(members):
     )
 
 
-def _solve_swings(turns):
+def _solve_swings(turns, warm):
     """Step 4: one batched solve per aim style and racket, over both hitters (when they play
     with the same racket), every stroke style and every live rally, targets with a net
-    clearance to meet beside targets without one; fills each turn's ``solved`` swing and
-    ``reachable``."""
+    clearance to meet beside targets without one, each solve starting where ``warm`` (the
+    block's :class:`rallyarc.rally.warm.WarmStart`) guesses; fills each turn's ``solved``
+    swing and ``reachable``, and teaches ``warm`` the solutions."""
     groups = {}
     for t in turns:
         for j, s in enumerate(t.entries):
@@ -267,6 +271,10 @@ def _solve_swings(turns):
             # NaN: that target has no clearance to meet (it solves as it would alone)
             goals = [np.nan if s.clearance is None else s.clearance for _, _, s in members]
             clearance = np.repeat(np.asarray(goals, float), sizes)
+        names = free_parameters(s0.aim, third=clearance is not None)
+        start = np.concatenate(
+            [warm.guess(_style(t, s), _ball_of(t, k), *t.aimed[k].T, names) for t, k, s in members]
+        )
         res = aim_stroke(
             _stacked_balls(members),
             [s.stroke for _, _, s in members],
@@ -277,17 +285,29 @@ def _solve_swings(turns):
             clearance=clearance,
             which=np.repeat(np.arange(len(members)), sizes),
             play=False,
-            # rallies solve many batches: the compiled first flight (numpy for aero models
-            # without a compiled form)
             engine="compiled",
+            start=start,
         )
         at = 0
-        for t, k, _ in members:
+        for t, k, s in members:
             part = slice(at, at + k.size)
             at += k.size
             for f in Swing.FIELDS:
                 getattr(t.solved, f)[k] = getattr(res.swing, f)[part]
             t.reachable[k] = res.reachable[part]
+            swing = Swing(**{f: getattr(res.swing, f)[part] for f in Swing.FIELDS})
+            warm.learn(_style(t, s), _ball_of(t, k), *t.aimed[k].T, swing, res.reachable[part])
+
+
+def _style(turn, entry):
+    """The key of a hitter's stroke style in the block's warm start."""
+    return (turn.end, entry.aim, entry.stroke_name)
+
+
+def _ball_of(turn, k):
+    """The incoming balls of some of a turn's rallies (indices ``k``)."""
+    b = turn.ball
+    return BallState(b.position[k], b.velocity[k], b.spin[k])
 
 
 def _scattered_swing(turn, z):
@@ -364,15 +384,17 @@ def _recover(state, turn, k, time):
     state.spot[turn.rallies[k], turn.end] = spot
 
 
-def play_round(state, players, rng, limit, report):
-    """One shot of every live rally; advances ``state`` and returns this round's rows."""
+def play_round(state, players, rng, limit, report, warm=None):
+    """One shot of every live rally; advances ``state`` and returns this round's rows.
+    ``warm`` is the block's :class:`rallyarc.rally.warm.WarmStart` (a new one when not given)."""
+    warm = WarmStart() if warm is None else warm
     act = np.flatnonzero(state.live)
     state.shot_no[act] += 1
     draws = Draws.of(rng, state.rally.size, act)
     hitters = state.hitter[act].copy()  # each live rally plays one shot per round
     turns = [_plan_turn(state, players, e, act, hitters, draws) for e in (0, 1)]
     turns = [t for t in turns if t is not None]
-    _solve_swings(turns)
+    _solve_swings(turns, warm)
     rows = []
     for turn in turns:
         played = _play_turn(turn, draws, limit)
@@ -390,7 +412,8 @@ def play_block(patterns, start, n, stream, limit, report):
     rng = np.random.default_rng(stream)
     state = RallyState.start(patterns, start, n)
     rows = []
+    warm = WarmStart()
     while state.live.any():
-        rows.extend(play_round(state, patterns.players, rng, limit, report))
+        rows.extend(play_round(state, patterns.players, rng, limit, report, warm))
     shots = shot_table(rows, start)
     return shots, rally_table(state, patterns.players, shots)
