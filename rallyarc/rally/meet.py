@@ -39,6 +39,12 @@ PATH_SAMPLES = 64
 #: Iterations of the root search for the time the ball passes a height (the Illinois
 #: iteration converges superlinearly: 16 iterations put it within a nanosecond).
 ROOT_ITERATIONS = 16
+#: Iterations of the bisection for the edge of the reachable stretch (a sample spacing of
+#: about 20 ms halved 20 times: within about 20 ns).
+BISECT_ITERATIONS = 20
+#: Searches for the contact time: ``"numpy"`` all balls at once (the reference),
+#: ``"compiled"`` the same search one ball at a time compiled with numba.
+ENGINES = ("numpy", "compiled")
 
 
 @dataclass
@@ -221,7 +227,7 @@ def _search(path, target):
             p = path.positions(full[None, :])
             return path.feasible(full[None, :], p)[0, r]
 
-        t_c[r] = _bisect(ok_at, t_c[r].copy(), t_nb[r].copy(), iterations=20)
+        t_c[r] = _bisect(ok_at, t_c[r].copy(), t_nb[r].copy(), iterations=BISECT_ITERATIONS)
     return t_c, found, grid, grid_pos
 
 
@@ -258,13 +264,45 @@ def recover(body, home, run_speed, time):
     return body + gap * (step / np.where(dist > 0, dist, 1.0))[:, None]
 
 
-def meet(result, balls, receiver, start=None):
+def _compiled_search(result, col, path):
+    """The target time, apex time, contact time [s], found flag and unreached reason of every
+    ball of ``path`` (columns ``col`` of the flight after the bounce) from the compiled kernel
+    (:mod:`rallyarc.rally.meet_compiled`)."""
+    from rallyarc.rally import meet_compiled
+
+    after = result.after_bounce.flight
+    target, t_apex, t_c, found, code = meet_compiled.search(
+        after.trajectory,
+        col,
+        path.t_b,
+        path.t_e,
+        path.start,
+        after.events["apex"],
+        result.conditions.ball.radius,
+        path.receiver,
+        path.deepest,
+        np.linspace(0.0, 1.0, PATH_SAMPLES),
+        ROOT_ITERATIONS,
+        BISECT_ITERATIONS,
+    )
+    reason = np.array(meet_compiled.REASONS, dtype=object)[code].astype(str)
+    return target, t_apex, t_c, found, reason
+
+
+def meet(result, balls, receiver, start=None, engine="numpy"):
     """Find where ``receiver`` meets the balls ``balls`` (indices of shots that landed in) of
     one chain result ``result`` (recorded), all in the hitter's chain frame; ``start`` (n, 2)
     [m] is where the receiver stands when the hitter strikes (home when not given).
 
+    ``engine`` (one of :data:`ENGINES`) runs the search for the contact time: ``"numpy"`` all
+    balls at once in numpy, ``"compiled"`` one ball at a time in the numba kernel of
+    :mod:`rallyarc.rally.meet_compiled` (loaded on first use), which finds the same times to
+    rounding.
+
     Returns a :class:`Contact` for those balls.
     """
+    if engine not in ENGINES:
+        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
     balls = np.asarray(balls, int)
     if balls.size == 0:
         return Contact(
@@ -284,8 +322,12 @@ def meet(result, balls, receiver, start=None):
         raise ValueError("every ball must have bounced") from None
     trajectory = result.after_bounce.trajectory_of(balls)
     path = _Path(trajectory, after.t[col], result.metrics["bounce_t_s"][balls], receiver, start)
-    target, t_apex = _target_time(path, after.events["apex"], col, result.conditions.ball.radius)
-    t_c, found, reason = _nearest_within_reach(path, target)
+    if engine == "compiled":
+        target, t_apex, t_c, found, reason = _compiled_search(result, col, path)
+    else:
+        radius = result.conditions.ball.radius
+        target, t_apex = _target_time(path, after.events["apex"], col, radius)
+        t_c, found, reason = _nearest_within_reach(path, target)
     pos, vel, spin = (a[0] for a in path.sample(t_c[None, :]))
     phase = np.where(
         np.abs(t_c - t_apex) <= APEX_WINDOW_S, "apex", np.where(t_c < t_apex, "rise", "drop")
