@@ -6,12 +6,13 @@ it are left out; their metrics are absent from what these functions return.
 Events do not change the integrator's steps, so the net and the ground come out as the whole
 chain computes them.
 
-``engine`` chooses the integrator of that flight: ``"numpy"`` (default) is
-:func:`rallyarc.flight.integrate.fly`; ``"compiled"`` is
-:func:`rallyarc.flight.compiled.fly_net_and_ground`, the same algorithm compiled with numba (the
-same events and step counts, positions within about 1e-12 m), for callers that fly many small
-batches and can pay for the compile (or cache load) on first use. Balls whose aero model has no
-compiled form fly with numpy whatever the choice."""
+``engine`` chooses the impact and the integrator of that flight: ``"numpy"`` (default) is
+:func:`rallyarc.impact.contact.hit` and :func:`rallyarc.flight.integrate.fly`; ``"compiled"``
+is :func:`rallyarc.impact.compiled.hit` (the same contact model, outputs within about 1e-12)
+and :func:`rallyarc.flight.compiled.fly_net_and_ground`, the same algorithm compiled with numba
+(the same events and step counts, positions within about 1e-12 m), for callers that strike and
+fly many small batches and can pay for the compile (or cache load) on first use. Rackets and
+balls whose models have no compiled form are played with numpy whatever the choice."""
 
 from __future__ import annotations
 
@@ -68,7 +69,7 @@ def _first(start, approaching, serve, conditions, m, rtol, engine):
 def struck(incoming, swing, conditions, serve, rtol=1e-6, engine="numpy"):
     """Impact, net and landing metrics of N swings against N incoming balls (as
     :func:`rallyarc.shot.simulate` computes them); ``engine`` as in the module's notes."""
-    contact, m = stages.impact(incoming, swing, conditions)
+    contact, m = stages.impact(incoming, swing, conditions, engine)
     start = BallState(incoming.position, contact.velocity, contact.spin)
     return _first(start, contact.approaching, serve, conditions, m, rtol, engine)
 

@@ -87,10 +87,11 @@ def aim_stroke(
         (``swing`` and ``metrics`` of the result hold the solved swings and that flight's
         metrics), for callers that play the shot themselves.
     engine : {"numpy", "compiled"}
-        The integrator of the residual's first flight (:mod:`rallyarc.aim.first`): numpy, or
-        the numba-compiled kernel, for callers that solve many batches and can pay for its
-        compile (or cache load) on first use. The residuals that need the bounce (a receiver
-        height) and the shots played for ``result`` use numpy.
+        The impact and the integrator of the residual's first flight
+        (:mod:`rallyarc.aim.first`): numpy, or the numba-compiled kernels, for callers that
+        solve many batches and can pay for their compile (or cache load) on first use. The
+        residuals that need the bounce (a receiver height) and the shots played for
+        ``result`` use numpy.
 
     Returns
     -------

@@ -56,10 +56,10 @@ def simulate(
     rtol : float
         Flight integrator tolerance.
     engine : {"numpy", "compiled"}
-        Integrator of the flights (:data:`rallyarc.shot.stages.ENGINES`): numpy (default), or
-        the same algorithm compiled with numba, for callers that play many small batches and
-        can wait for the compile (or cache load) on first use; aero models without a compiled
-        form fly with numpy whatever the choice.
+        Engine of the impact and the flights (:data:`rallyarc.shot.stages.ENGINES`): numpy
+        (default), or the same models compiled with numba, for callers that play many small
+        batches and can wait for the compile (or cache load) on first use; aero models and
+        rackets without a compiled form are played with numpy whatever the choice.
 
     Returns
     -------
@@ -70,7 +70,7 @@ def simulate(
         incoming = BallState.of(incoming.position, incoming.velocity, incoming.spin, n)
     if len(swing) != n:
         swing = Swing(**{f: np.broadcast_to(getattr(swing, f), (n,)) for f in Swing.FIELDS})
-    contact, impact_metrics = stages.impact(incoming, swing, conditions)
+    contact, impact_metrics = stages.impact(incoming, swing, conditions, engine)
     start = BallState(incoming.position, contact.velocity, contact.spin)
     return _fly(
         start, conditions, labels, serve, record, rtol, contact.approaching, impact_metrics, engine

@@ -24,9 +24,17 @@ from rallyarc.units import RPM
 #: Longest flight of one phase [s].
 T_MAX = 12.0
 
-#: Integrators of the flights: ``"numpy"`` is :func:`rallyarc.flight.integrate.fly`,
-#: ``"compiled"`` :mod:`rallyarc.flight.compiled`, the same algorithm compiled with numba.
+#: Engines of the impact and the flights: ``"numpy"`` is :func:`rallyarc.impact.contact.hit`
+#: and :func:`rallyarc.flight.integrate.fly`, ``"compiled"`` :mod:`rallyarc.impact.compiled`
+#: and :mod:`rallyarc.flight.compiled`, the same models compiled with numba.
 ENGINES = ("numpy", "compiled")
+
+
+def _compiled(engine):
+    """Whether ``engine`` (one of :data:`ENGINES`) asks for the compiled models."""
+    if engine not in ENGINES:
+        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
+    return engine == "compiled"
 
 
 def compiled_flight(params, engine):
@@ -37,13 +45,23 @@ def compiled_flight(params, engine):
     numba loads only for the callers that ask for the compiled engine; its first use in a
     process compiles the kernels or loads them from numba's cache.
     """
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
-    if engine != "compiled":
+    if not _compiled(engine):
         return None
     from rallyarc.flight import compiled
 
     return compiled if compiled.supports(params) else None
+
+
+def compiled_impact(racket, engine):
+    """The compiled impact module when ``engine`` is ``"compiled"`` and ``racket`` (a
+    :class:`rallyarc.impact.racket.Racket`) has a compiled form; None when the impact is
+    numpy's (``"numpy"``, or a racket without a compiled form). numba loads as for
+    :func:`compiled_flight`."""
+    if not _compiled(engine):
+        return None
+    from rallyarc.impact import compiled
+
+    return compiled if compiled.supports(racket) else None
 
 
 def _fly(engine, position, velocity, spin, params, events, **kw):
@@ -80,19 +98,25 @@ def launch_metrics(velocity, spin):
     }
 
 
-def impact(incoming, swing, conditions):
+def impact(incoming, swing, conditions, engine="numpy"):
     """The racket meets the ball: :func:`rallyarc.impact.contact.hit` for N swings, with the
     string bed's restitution at each ball's normal speed and its spring-back (none when
-    ``conditions.friction_only``).
+    ``conditions.friction_only``); ``engine`` one of :data:`ENGINES` (the face, the swing and
+    the contact compiled where :func:`compiled_impact` gives them).
 
     Returns the contact result (outgoing velocity and spin, regime, whether the racket met the
     ball at all) and the impact metrics.
     """
     ball, racket = conditions.ball, conditions.racket
-    normal, axis = face_orientation(swing.face_tilt, swing.face_azimuth, swing.racket_roll)
-    face_v = swing_velocity(swing.head_speed, swing.swing_path, swing.swing_direction)
+    kernels = compiled_impact(racket.racket, engine)
+    if kernels is None:
+        orient, swing_of, strike = face_orientation, swing_velocity, hit
+    else:
+        orient, swing_of, strike = kernels.face_orientation, kernels.swing_velocity, kernels.hit
+    normal, axis = orient(swing.face_tilt, swing.face_azimuth, swing.racket_roll)
+    face_v = swing_of(swing.head_speed, swing.swing_path, swing.swing_direction)
     e_n, mu, e_t = conditions.string_contact(incoming.velocity, face_v, normal)
-    contact = hit(
+    contact = strike(
         incoming.velocity,
         incoming.spin,
         face_v,

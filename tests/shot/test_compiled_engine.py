@@ -1,11 +1,14 @@
-"""The chain with its flights compiled (``simulate(..., engine="compiled")``) against the chain
-with numpy's flights, and rallies played with either.
+"""The chain with its impact and flights compiled (``simulate(..., engine="compiled")``) against
+the chain with numpy's.
 
-Reference: the chain with the numpy integrator (``engine="numpy"``, the default), whose flights
-are checked against solve_ivp elsewhere. The compiled flights run the same algorithm (see
-tests/flight/test_compiled.py), so every metric must agree: floats within ``TOL`` = 1e-9 (NaN
-where numpy's are NaN), strings and flags equal.
+Reference: the chain with the numpy contact and integrator (``engine="numpy"``, the default),
+whose flights are checked against solve_ivp and whose contact against the published worked
+values elsewhere. The compiled impact and flights run the same models (see
+tests/impact/test_compiled.py and tests/flight/test_compiled.py), so every metric must agree:
+floats within ``TOL`` = 1e-9 (NaN where numpy's are NaN), strings and flags equal.
 """
+
+from dataclasses import dataclass, replace
 
 import numpy as np
 import pytest
@@ -91,3 +94,67 @@ def test_the_compiled_chain_flies_with_numpy_for_an_aero_model_without_a_compile
     conditions, inc, swing, serve = _shots(3, seed=1)
     with pytest.raises(ValueError, match="engine"):
         simulate(inc, swing, conditions, engine="fast")
+
+
+@pytest.mark.parametrize("friction_only", [False, True])
+def test_compiled_impact_gives_numpys_metrics_for_every_racket_and_impact_point(
+    monkeypatch, friction_only
+):
+    """The chain with its impact compiled as well as its flights (rallyarc.impact.compiled):
+    the three racket presets, impact points scattered over the head and off the axis, with and
+    without the strings' spring-back; every metric as numpy's, and the compiled contact is the
+    one played."""
+    from rallyarc.impact import compiled
+
+    n = 1000
+    base, inc, swing, serve = _shots(3 * n, seed=31 + friction_only)
+    rng = np.random.default_rng(5 + friction_only)
+    fields = {f: getattr(swing, f) for f in Swing.FIELDS}
+    fields["impact_from_butt"] = rng.uniform(0.42, 0.64, 3 * n)
+    fields["impact_offaxis"] = rng.uniform(-0.05, 0.05, 3 * n)
+    # a few balls run away from the face faster than it swings: the racket misses them
+    velocity = inc.velocity.copy()
+    velocity[rng.random(3 * n) < 0.03] = (70.0, 0.0, 0.0)
+    inc = BallState(inc.position, velocity, inc.spin)
+    struck = []
+    kernel = compiled.hit
+    monkeypatch.setattr(compiled, "hit", lambda *a: struck.append(len(a[0])) or kernel(*a))
+    regimes = set()
+    for k, racket in enumerate(("light", "standard", "heavy")):
+        conditions = replace(base, racket=domain.load_racket(racket), friction_only=friction_only)
+        part = slice(k * n, (k + 1) * n)
+        balls = BallState(inc.position[part], inc.velocity[part], inc.spin[part])
+        swings = Swing(**{f: v[part] for f, v in fields.items()})
+        want = simulate(balls, swings, conditions, serve=serve[part], record=False)
+        got = simulate(
+            balls, swings, conditions, serve=serve[part], record=False, engine="compiled"
+        )
+        _assert_same_metrics(got.metrics, want.metrics)
+        regimes |= set(want.metrics["impact_regime"])
+    assert struck == [n, n, n]
+    assert regimes == {"grip", "slide", "none"}
+    assert "miss" in set(want.metrics["outcome"])
+
+
+def test_the_compiled_chain_strikes_with_numpy_for_a_racket_without_a_compiled_form():
+    @dataclass(frozen=True)
+    class PerBallRacket:
+        """A racket whose mass is given per ball (numpy's contact broadcasts it)."""
+
+        mass_kg: object
+        balance_m: float = 0.32
+        swingweight_kgm2: float = 0.032
+        twistweight_kgm2: float = 0.0015
+        length_m: float = 0.686
+
+    conditions, inc, swing, serve = _shots(40, seed=3)
+    assert stages.compiled_impact(conditions.racket.racket, "compiled") is not None
+    assert stages.compiled_impact(conditions.racket.racket, "numpy") is None
+    with pytest.raises(ValueError, match="engine"):
+        stages.compiled_impact(conditions.racket.racket, "fast")
+    per_ball = PerBallRacket(np.linspace(0.28, 0.35, 40))
+    assert stages.compiled_impact(per_ball, "compiled") is None
+    played = replace(conditions, racket=replace(conditions.racket, racket=per_ball))
+    want = simulate(inc, swing, played, serve=serve, record=False)
+    got = simulate(inc, swing, played, serve=serve, record=False, engine="compiled")
+    _assert_same_metrics(got.metrics, want.metrics)
