@@ -138,23 +138,16 @@ class Conditions:
 
     def flight_params(self):
         """Flight parameters of this ball in this air, with the spin decay of
-        :func:`rallyarc.flight.forces.spin_decay_rate` (aerodynamic torque)."""
-        ball = self.ball
-        decay = spin_decay_rate(self.air.density, ball.radius, ball.mass, ball.alpha, ball.aero)
-        return FlightParams(
-            mass=ball.mass,
-            radius=ball.radius,
-            air_density=self.air.density,
-            aero=ball.aero,
-            spin_decay_rate=decay,
-            wind=self.air.wind,
-        )
+        :func:`rallyarc.flight.forces.spin_decay_rate` (aerodynamic torque); derived once, when
+        the conditions are made (they are immutable)."""
+        return self._flight_params
 
     #: The reference ball's drop-test restitution (the surface presets' restitution was
     #: measured with it); the preset's value unless given.
     reference_restitution: float | None = None
     #: The surface as this ball meets it (derived once, see :meth:`surface_for_ball`).
     ball_surface: Surface = field(init=False, repr=False, compare=False)
+    _flight_params: FlightParams = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
         if self.reference_restitution is None:
@@ -162,6 +155,17 @@ class Conditions:
         scale = self.ball.restitution / self.reference_restitution
         surface = replace(self.surface, restitution=min(1.0, self.surface.restitution * scale))
         object.__setattr__(self, "ball_surface", surface)
+        ball = self.ball
+        decay = spin_decay_rate(self.air.density, ball.radius, ball.mass, ball.alpha, ball.aero)
+        params = FlightParams(
+            mass=ball.mass,
+            radius=ball.radius,
+            air_density=self.air.density,
+            aero=ball.aero,
+            spin_decay_rate=decay,
+            wind=self.air.wind,
+        )
+        object.__setattr__(self, "_flight_params", params)
 
     @property
     def string_tangential_restitution(self):
