@@ -13,8 +13,11 @@ Modules, in the order a rally uses them:
 - :mod:`.patterns`: pattern files, players and their repertoires (:func:`load_patterns`).
 - :mod:`.frames`: the two ends' chain frames and the forehand and backhand sides.
 - :mod:`.choice`: which shot a hitter plays, where they aim, how much they scatter.
-- :mod:`.meet`: where the receiver meets the ball (:func:`meet`).
+- :mod:`.meet`: where the receiver meets the ball (:func:`meet`; :mod:`.meet_compiled`, its
+  search compiled).
 - :mod:`.endings`: the result of a shot and how a rally ends (:data:`ENDINGS`).
+- :mod:`.state`: what a block carries between and within rounds.
+- :mod:`.warm`: the aim solves' starting points, learned from the block's earlier shots.
 - :mod:`.rounds`: the round loop, named steps over a block of rallies.
 - :mod:`.table`: the per-shot and per-rally tables, and replaying a row through the chain.
 - :mod:`.runner`: blocks with their own random streams, in one process or several

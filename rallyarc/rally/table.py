@@ -138,7 +138,7 @@ def shot_rows(turn, played):
     """One round's rows for one hitter (columns of arrays); positions in the court frame.
 
     ``turn`` is the hitter's plan of the round and ``played`` its shots as played
-    (:class:`rallyarc.rally.rounds.Turn` and :class:`rallyarc.rally.rounds.Played`).
+    (:class:`rallyarc.rally.state.Turn` and :class:`rallyarc.rally.state.Played`).
     """
     flip = court_factor(turn.end)
     return (

@@ -2,7 +2,7 @@
 from the base with 95 % intervals.
 
 Every variant is played with the same seed and block size as the base, so rally ``i`` of each
-variant meets the same random numbers round by round (:class:`rallyarc.rally.rounds.Draws`):
+variant meets the same random numbers round by round (:class:`rallyarc.rally.state.Draws`):
 the differences between variants come from the plans, not from luck. For each rally-level
 indicator (the near or far player wins the point; the point ends in a winner, a forced error,
 an unforced error or a double fault) the difference is the paired mean difference over
