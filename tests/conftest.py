@@ -16,7 +16,33 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path[:] = [p for p in sys.path if Path(p or os.getcwd()).resolve() != ROOT]
 
+import pytest  # noqa: E402
 from hypothesis import settings  # noqa: E402
 
 settings.register_profile("rallyarc", derandomize=True, deadline=None)
 settings.load_profile("rallyarc")
+
+
+@pytest.fixture(scope="session")
+def scattered_incoming():
+    """A factory ``make(n, seed)`` of n incoming balls scattered around the demo scenario's:
+    the contact moved by about 0.5, 1.5 and 0.2 m (height kept within 0.4-1.6 m), the velocity
+    scaled by 0.7-1.3 and jittered by 1 m/s, the spin scaled by -0.5 to 1.5. Returns the demo
+    scenario, the balls (a ``BallState``) and the random generator that drew them, for the
+    caller's further draws."""
+    import numpy as np
+
+    from rallyarc import domain
+    from rallyarc.shot import BallState
+
+    def make(n, seed):
+        rng = np.random.default_rng(seed)
+        sc = domain.load_scenario("demo")
+        inc = BallState.of(*domain.incoming_state(sc.incoming))
+        pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
+        pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
+        vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
+        spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
+        return sc, BallState(pos, vel, spin), rng
+
+    return make

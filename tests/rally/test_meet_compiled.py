@@ -21,7 +21,7 @@ import pytest
 
 from rallyarc import court, domain
 from rallyarc.rally import load_patterns, play_rallies, rounds
-from rallyarc.shot import BallState, Swing, simulate
+from rallyarc.shot import Swing, simulate
 
 # the module, not the function the rally package exports under the same name
 meet_module = importlib.import_module("rallyarc.rally.meet")
@@ -31,16 +31,10 @@ FIELDS_EXACT = ("found", "reason", "phase")
 FIELDS_CLOSE = ("t", "position", "velocity", "spin", "target_t", "body", "stretch")
 
 
-def _shots(n, seed=3):
+def _shots(scattered_incoming, n, seed=3):
     """n recorded shots from incoming balls scattered around the demo's, three stroke styles and
     scattered face tilts and swing directions (so that they land all over the court)."""
-    rng = np.random.default_rng(seed)
-    sc = domain.load_scenario("demo")
-    inc = BallState.of(*domain.incoming_state(sc.incoming))
-    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
-    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
-    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
-    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
+    sc, inc, rng = scattered_incoming(n, seed)
     strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
     which = rng.integers(0, 3, n)
     base = Swing.from_strokes(strokes)
@@ -53,12 +47,12 @@ def _shots(n, seed=3):
             "head_speed": swing.head_speed * rng.uniform(0.7, 1.2, n),
         }
     )
-    return simulate(BallState(pos, vel, spin), swing, sc.conditions, serve=np.zeros(n, bool))
+    return simulate(inc, swing, sc.conditions, serve=np.zeros(n, bool))
 
 
 @pytest.fixture(scope="module")
-def shots():
-    result = _shots(2500)
+def shots(scattered_incoming):
+    result = _shots(scattered_incoming, 2500)
     assert result.after_bounce is not None
     return result
 

@@ -72,25 +72,19 @@ def test_no_guess_before_enough_shots_are_solved():
     assert np.isnan(warm.guess("other", ball, tx, ty, ["face_tilt"])).all()
 
 
-def _targets(n, seed=9):
-    rng = np.random.default_rng(seed)
-    sc = domain.load_scenario("demo")
-    inc = BallState.of(*domain.incoming_state(sc.incoming))
-    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
-    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
-    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
-    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
+def _targets(scattered_incoming, n, seed=9):
+    sc, inc, rng = scattered_incoming(n, seed)
     tx, ty = rng.uniform(4.0, 12.5, n), rng.uniform(-4.5, 4.5, n)
     strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
-    return sc, BallState(pos, vel, spin), strokes, rng.integers(0, 3, n), tx, ty
+    return sc, inc, strokes, rng.integers(0, 3, n), tx, ty
 
 
 @pytest.mark.parametrize("clearance", [None, 1.2])
-def test_a_solve_from_a_guess_reaches_the_default_starts_verdicts(clearance):
+def test_a_solve_from_a_guess_reaches_the_default_starts_verdicts(clearance, scattered_incoming):
     # a guess a degree or two from the solution (as the warm start gives) changes where the
     # solver starts, not what it finds: the same verdicts, landings within the tolerance
     n = 2000
-    sc, inc, strokes, which, tx, ty = _targets(n)
+    sc, inc, strokes, which, tx, ty = _targets(scattered_incoming, n)
     kw = {"which": which, "clearance": clearance, "play": False}
     plain = aim_stroke(inc, strokes, sc.conditions, tx, ty, **kw)
     names = list(plain.settings)
@@ -107,8 +101,8 @@ def test_a_solve_from_a_guess_reaches_the_default_starts_verdicts(clearance):
     assert apart.max() <= 2 * LAND_TOL_M
 
 
-def test_a_start_of_the_wrong_shape_is_refused():
-    sc, inc, strokes, which, tx, ty = _targets(10)
+def test_a_start_of_the_wrong_shape_is_refused(scattered_incoming):
+    sc, inc, strokes, which, tx, ty = _targets(scattered_incoming, 10)
     with pytest.raises(ValueError, match="start must be shaped"):
         aim_stroke(inc, strokes, sc.conditions, tx, ty, which=which, start=np.zeros((10, 3)))
 

@@ -20,16 +20,10 @@ from rallyarc.shot import BallState, Swing, simulate, stages
 TOL = 1e-9
 
 
-def _shots(n, seed):
+def _shots(scattered_incoming, n, seed):
     """n incoming balls scattered around the demo's, three stroke styles with scattered face
     tilt, swing direction and head speed, a few serve flags."""
-    rng = np.random.default_rng(seed)
-    sc = domain.load_scenario("demo")
-    inc = BallState.of(*domain.incoming_state(sc.incoming))
-    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
-    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
-    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
-    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
+    sc, inc, rng = scattered_incoming(n, seed)
     strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
     which = rng.integers(0, 3, n)
     base = Swing.from_strokes(strokes)
@@ -38,7 +32,7 @@ def _shots(n, seed):
     fields["swing_direction"] = rng.normal(0.0, 0.3, n)
     fields["head_speed"] = fields["head_speed"] * rng.uniform(0.6, 1.3, n)
     serve = rng.random(n) < 0.1
-    return sc.conditions, BallState(pos, vel, spin), Swing(**fields), serve
+    return sc.conditions, inc, Swing(**fields), serve
 
 
 def _assert_same_metrics(got, want):
@@ -53,8 +47,8 @@ def _assert_same_metrics(got, want):
 
 
 @pytest.mark.parametrize("record", [True, False])
-def test_compiled_chain_gives_numpys_metrics_on_thousands_of_shots(record):
-    conditions, inc, swing, serve = _shots(3000, seed=21 if record else 22)
+def test_compiled_chain_gives_numpys_metrics_on_thousands_of_shots(scattered_incoming, record):
+    conditions, inc, swing, serve = _shots(scattered_incoming, 3000, seed=21 if record else 22)
     want = simulate(inc, swing, conditions, serve=serve, record=record)
     got = simulate(inc, swing, conditions, serve=serve, record=record, engine="compiled")
     _assert_same_metrics(got.metrics, want.metrics)
@@ -75,7 +69,9 @@ def test_compiled_chain_gives_numpys_metrics_on_thousands_of_shots(record):
                 np.testing.assert_array_equal(a, b)
 
 
-def test_the_compiled_chain_flies_with_numpy_for_an_aero_model_without_a_compiled_form():
+def test_the_compiled_chain_flies_with_numpy_for_an_aero_model_without_a_compiled_form(
+    scattered_incoming,
+):
     class OtherAero:
         def drag(self, s):
             return np.full_like(np.asarray(s, dtype=float), 0.5)
@@ -91,14 +87,14 @@ def test_the_compiled_chain_flies_with_numpy_for_an_aero_model_without_a_compile
     for engine in ("fast", None):
         with pytest.raises(ValueError, match="engine"):
             stages.compiled_flight(supported, engine)
-    conditions, inc, swing, serve = _shots(3, seed=1)
+    conditions, inc, swing, serve = _shots(scattered_incoming, 3, seed=1)
     with pytest.raises(ValueError, match="engine"):
         simulate(inc, swing, conditions, engine="fast")
 
 
 @pytest.mark.parametrize("friction_only", [False, True])
 def test_compiled_impact_gives_numpys_metrics_for_every_racket_and_impact_point(
-    monkeypatch, friction_only
+    monkeypatch, friction_only, scattered_incoming
 ):
     """The chain with its impact compiled as well as its flights (rallyarc.impact.compiled):
     the three racket presets, impact points scattered over the head and off the axis, with and
@@ -107,7 +103,7 @@ def test_compiled_impact_gives_numpys_metrics_for_every_racket_and_impact_point(
     from rallyarc.impact import compiled
 
     n = 1000
-    base, inc, swing, serve = _shots(3 * n, seed=31 + friction_only)
+    base, inc, swing, serve = _shots(scattered_incoming, 3 * n, seed=31 + friction_only)
     rng = np.random.default_rng(5 + friction_only)
     fields = {f: getattr(swing, f) for f in Swing.FIELDS}
     fields["impact_from_butt"] = rng.uniform(0.42, 0.64, 3 * n)
@@ -136,7 +132,9 @@ def test_compiled_impact_gives_numpys_metrics_for_every_racket_and_impact_point(
     assert "miss" in set(want.metrics["outcome"])
 
 
-def test_the_compiled_chain_strikes_with_numpy_for_a_racket_without_a_compiled_form():
+def test_the_compiled_chain_strikes_with_numpy_for_a_racket_without_a_compiled_form(
+    scattered_incoming,
+):
     @dataclass(frozen=True)
     class PerBallRacket:
         """A racket whose mass is given per ball (numpy's contact broadcasts it)."""
@@ -147,7 +145,7 @@ def test_the_compiled_chain_strikes_with_numpy_for_a_racket_without_a_compiled_f
         twistweight_kgm2: float = 0.0015
         length_m: float = 0.686
 
-    conditions, inc, swing, serve = _shots(40, seed=3)
+    conditions, inc, swing, serve = _shots(scattered_incoming, 40, seed=3)
     assert stages.compiled_impact(conditions.racket.racket, "compiled") is not None
     assert stages.compiled_impact(conditions.racket.racket, "numpy") is None
     with pytest.raises(ValueError, match="engine"):
