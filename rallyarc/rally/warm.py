@@ -11,7 +11,9 @@ the same tolerances; only where the solver starts changes.
 
 The fit is kept as running sums of its normal equations, so learning and guessing cost the same
 however many shots the block has played. It depends only on the block's earlier rounds, so a
-block's tables still depend on its seed alone.
+block's tables still depend on its seed alone. Two pattern variants played on one seed
+(:mod:`rallyarc.rally.whatif`) meet the same random numbers but learn from their own shots: their
+solved swings for the same target may differ within the landing tolerance.
 """
 
 from __future__ import annotations
