@@ -304,82 +304,116 @@ def _place(axis, offset, t, h_sub, x, v, a, w0, p, kv, ka, sub, rec, i):
 
 
 @numba.njit(cache=True)
+def _fly_ball(
+    b, pos, vel, spin, p, t_max, rtol, atol, net, ground, end, term, steps, work, x, v, a, w0
+):
+    """Fly ball ``b`` of :func:`_fly_all` to the ground or ``t_max`` [s]: writes its rows of
+    ``net``, ``ground`` (left as they are where not met), ``end``, ``term`` (left as it is when
+    the flight ends at ``t_max``) and ``steps``. ``work`` holds the scratch arrays of
+    :func:`_scratch`; ``x``, ``v``, ``a`` and ``w0`` are 3-vectors of scratch space."""
+    kv, ka, out, sub, coeffs = work
+    radius = p[_P_RADIUS]
+    rate = p[_P_DECAY]
+    for c in range(3):
+        x[c], v[c], w0[c] = pos[b, c], vel[b, c], spin[b, c]
+    t = 0.0
+    a0 = _acc(t, v[0], v[1], v[2], w0[0], w0[1], w0[2], p)
+    a[0], a[1], a[2] = a0
+    h = _initial_step(x, v, a, w0, p, rtol, atol, t_max)
+    net_met = False
+    ground_met = False
+    n_steps = 0
+    which = -1
+    while True:
+        _dp_step(t, x, v, a, h, w0, p, kv, ka, out)
+        err = _error_norm(out, x, v, rtol, atol)
+        ok = err <= 1.0
+        factor = min(max(0.9 * max(err, 1e-10) ** -0.2, 0.2), 5.0)
+        if not ok:
+            factor = min(factor, 1.0)
+        done = False
+        if ok:
+            n_steps += 1
+            # the net: x = 0 crossed forwards; the ground: z = r crossed downwards
+            hit_net = False
+            s_net = 0.0
+            if not net_met and x[0] - 0.0 <= 0 and out[0, 0] - 0.0 >= 0:
+                hit_net, s_net = _crossing(0, 0.0, -1, h, x, v, a, out, coeffs)
+            hit_ground = False
+            s_ground = 0.0
+            if not ground_met and -(x[2] - radius) <= 0 and -(out[0, 2] - radius) >= 0:
+                hit_ground, s_ground = _crossing(2, radius, 1, h, x, v, a, out, coeffs)
+            s_end = 1.0
+            which = -1
+            if hit_ground and s_ground < s_end:
+                s_end = s_ground
+                which = 1
+            if hit_net and s_net <= s_end:
+                _place(0, 0.0, t, s_net * h, x, v, a, w0, p, kv, ka, sub, net, b)
+                net_met = True
+            if hit_ground and s_ground <= s_end:
+                _place(2, radius, t, s_ground * h, x, v, a, w0, p, kv, ka, sub, ground, b)
+                ground_met = True
+                if which == 1:
+                    for c in range(7):
+                        end[b, c] = ground[b, c]
+                    term[b] = 1
+                    done = True
+            t += h
+            for c in range(3):
+                x[c], v[c], a[c] = out[0, c], out[1, c], out[2, c]
+        t_left = t_max - t
+        if t_left <= 1e-12 and not done:
+            end[b, 0] = t
+            for c in range(3):
+                end[b, 1 + c], end[b, 4 + c] = x[c], v[c]
+            done = True
+        h = min(h * factor, max(t_left, 1e-12))
+        if done:
+            break
+    steps[b] = n_steps
+    f = math.exp(-rate * end[b, 0]) if rate != 0.0 else 1.0
+    for c in range(3):
+        end[b, 7 + c] = spin[b, c] * f if rate != 0.0 else spin[b, c]
+
+
+@numba.njit(cache=True)
+def _scratch():
+    """The scratch arrays of one flight of :func:`_fly_ball`: the stages' velocities and
+    accelerations, a step's outputs, a sub-step's outputs and a crossing's quintic."""
+    return np.empty((7, 3)), np.empty((7, 3)), np.empty((5, 3)), np.empty((5, 3)), np.empty(6)
+
+
+@numba.njit(cache=True)
 def _fly_all(pos, vel, spin, p, t_max, rtol, atol, net, ground, end, term, steps):
     """Fly every ball to the ground or ``t_max``. ``net`` and ``ground`` rows are ``t, x, v,
     spin`` (NaN where not met); ``end`` rows ``t, x, v``."""
-    radius = p[_P_RADIUS]
-    rate = p[_P_DECAY]
-    kv = np.empty((7, 3))
-    ka = np.empty((7, 3))
-    out = np.empty((5, 3))
-    sub = np.empty((5, 3))
-    coeffs = np.empty(6)
+    work = _scratch()
     x = np.empty(3)
     v = np.empty(3)
     a = np.empty(3)
     w0 = np.empty(3)
     for b in range(pos.shape[0]):
-        for c in range(3):
-            x[c], v[c], w0[c] = pos[b, c], vel[b, c], spin[b, c]
-        t = 0.0
-        a0 = _acc(t, v[0], v[1], v[2], w0[0], w0[1], w0[2], p)
-        a[0], a[1], a[2] = a0
-        h = _initial_step(x, v, a, w0, p, rtol, atol, t_max)
-        net_met = False
-        ground_met = False
-        n_steps = 0
-        which = -1
-        while True:
-            _dp_step(t, x, v, a, h, w0, p, kv, ka, out)
-            err = _error_norm(out, x, v, rtol, atol)
-            ok = err <= 1.0
-            factor = min(max(0.9 * max(err, 1e-10) ** -0.2, 0.2), 5.0)
-            if not ok:
-                factor = min(factor, 1.0)
-            done = False
-            if ok:
-                n_steps += 1
-                # the net: x = 0 crossed forwards; the ground: z = r crossed downwards
-                hit_net = False
-                s_net = 0.0
-                if not net_met and x[0] - 0.0 <= 0 and out[0, 0] - 0.0 >= 0:
-                    hit_net, s_net = _crossing(0, 0.0, -1, h, x, v, a, out, coeffs)
-                hit_ground = False
-                s_ground = 0.0
-                if not ground_met and -(x[2] - radius) <= 0 and -(out[0, 2] - radius) >= 0:
-                    hit_ground, s_ground = _crossing(2, radius, 1, h, x, v, a, out, coeffs)
-                s_end = 1.0
-                which = -1
-                if hit_ground and s_ground < s_end:
-                    s_end = s_ground
-                    which = 1
-                if hit_net and s_net <= s_end:
-                    _place(0, 0.0, t, s_net * h, x, v, a, w0, p, kv, ka, sub, net, b)
-                    net_met = True
-                if hit_ground and s_ground <= s_end:
-                    _place(2, radius, t, s_ground * h, x, v, a, w0, p, kv, ka, sub, ground, b)
-                    ground_met = True
-                    if which == 1:
-                        for c in range(7):
-                            end[b, c] = ground[b, c]
-                        term[b] = 1
-                        done = True
-                t += h
-                for c in range(3):
-                    x[c], v[c], a[c] = out[0, c], out[1, c], out[2, c]
-            t_left = t_max - t
-            if t_left <= 1e-12 and not done:
-                end[b, 0] = t
-                for c in range(3):
-                    end[b, 1 + c], end[b, 4 + c] = x[c], v[c]
-                done = True
-            h = min(h * factor, max(t_left, 1e-12))
-            if done:
-                break
-        steps[b] = n_steps
-        f = math.exp(-rate * end[b, 0]) if rate != 0.0 else 1.0
-        for c in range(3):
-            end[b, 7 + c] = spin[b, c] * f if rate != 0.0 else spin[b, c]
+        _fly_ball(
+            b,
+            pos,
+            vel,
+            spin,
+            p,
+            t_max,
+            rtol,
+            atol,
+            net,
+            ground,
+            end,
+            term,
+            steps,
+            work,
+            x,
+            v,
+            a,
+            w0,
+        )
 
 
 # layout of an event's flags handed to the kernel

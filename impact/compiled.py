@@ -324,6 +324,67 @@ def _collide_all(v, w, face_v, n, a, m, r, alpha, inv_big_m, k_r, e_n, mu, e_t, 
 
 
 @numba.njit(cache=True, error_model="numpy")
+def _racket_constants(mass, balance, swingweight, twistweight):
+    """The racket's moments that every impact point shares, as
+    :func:`impact.racket.racket_inverse_masses` computes them: ``i_cm`` (about the centre of
+    mass) [kg m^2], ``i_nn = i_cm + twistweight`` [kg m^2], ``1 / mass`` [1/kg], and the error
+    bits of the racket."""
+    bad = 0
+    i_cm = swingweight - mass * (balance - SWINGWEIGHT_AXIS_M) ** 2
+    if i_cm <= 0.0:
+        bad |= _E_INERTIA
+    if twistweight <= 0.0:
+        bad |= _E_TWIST
+    return i_cm, i_cm + twistweight, 1.0 / mass, bad
+
+
+@numba.njit(cache=True, error_model="numpy")
+def _hit_ball(
+    i,
+    v,
+    w,
+    face_v,
+    n,
+    a,
+    mass,
+    balance,
+    twistweight,
+    length,
+    i_cm,
+    i_nn,
+    inv_mass,
+    x,
+    d,
+    m,
+    r,
+    alpha,
+    e_n,
+    mu,
+    e_t,
+    vec,
+    num,
+    flag,
+):
+    """One ball of :func:`impact.contact.hit` at the impact point ``x`` [m] from the butt and
+    ``d`` [m] off the axis, with the racket's constants of :func:`_racket_constants`: the
+    racket's inverse masses there, then the contact; writes row ``i`` of ``vec``, ``num`` and
+    ``flag`` and returns the error bits of the ball's inputs."""
+    bad = 0
+    if x < 0.0 or x > length:
+        bad |= _E_IMPACT_POINT
+    b = x - balance
+    inv_n = 1.0 / mass + b**2 / i_cm + d**2 / twistweight
+    k01 = -b * d / i_nn
+    k00 = inv_mass + d**2 / i_nn
+    k11 = inv_mass + b**2 / i_nn
+    bad |= _check_ball(n, a, m, r, alpha, inv_n, k00, k01, k01, k11, e_n, mu, e_t)
+    _collide_ball(
+        i, v, w, face_v, n, a, m, r, alpha, inv_n, k00, k01, k01, k11, e_n, mu, e_t, vec, num, flag
+    )
+    return bad
+
+
+@numba.njit(cache=True, error_model="numpy")
 def _hit_all(
     v,
     w,
@@ -350,73 +411,81 @@ def _hit_all(
     """:func:`impact.contact.hit` on every ball: the racket's inverse masses at each impact
     point as :func:`impact.racket.racket_inverse_masses` computes them, then the contact;
     returns the error bits of the inputs."""
-    bad = 0
-    i_cm = swingweight - mass * (balance - SWINGWEIGHT_AXIS_M) ** 2
-    if i_cm <= 0.0:
-        bad |= _E_INERTIA
-    if twistweight <= 0.0:
-        bad |= _E_TWIST
-    i_nn = i_cm + twistweight
-    inv_mass = 1.0 / mass
+    i_cm, i_nn, inv_mass, bad = _racket_constants(mass, balance, swingweight, twistweight)
     for i in range(vec.shape[1]):
-        x = x_impact[_at(x_impact, i)]
-        if x < 0.0 or x > length:
-            bad |= _E_IMPACT_POINT
-        b = x - balance
-        d = offaxis[_at(offaxis, i)]
-        inv_n = 1.0 / mass + b**2 / i_cm + d**2 / twistweight
-        k01 = -b * d / i_nn
-        args = (
+        bad |= _hit_ball(
+            i,
+            v[_at(v, i)],
+            w[_at(w, i)],
+            face_v[_at(face_v, i)],
+            n[_at(n, i)],
+            a[_at(a, i)],
+            mass,
+            balance,
+            twistweight,
+            length,
+            i_cm,
+            i_nn,
+            inv_mass,
+            x_impact[_at(x_impact, i)],
+            offaxis[_at(offaxis, i)],
             m[_at(m, i)],
             r[_at(r, i)],
             alpha[_at(alpha, i)],
-            inv_n,
-            inv_mass + d**2 / i_nn,
-            k01,
-            k01,
-            inv_mass + b**2 / i_nn,
             e_n[_at(e_n, i)],
             mu[_at(mu, i)],
             e_t[_at(e_t, i)],
-        )
-        nb = n[_at(n, i)]
-        ab = a[_at(a, i)]
-        bad |= _check_ball(nb, ab, *args)
-        _collide_ball(
-            i, v[_at(v, i)], w[_at(w, i)], face_v[_at(face_v, i)], nb, ab, *args, vec, num, flag
+            vec,
+            num,
+            flag,
         )
     return bad
+
+
+@numba.njit(cache=True, error_model="numpy")
+def _face_ball(t, p, q):
+    """:func:`impact.geometry.face_orientation` of one face: tilt ``t``, azimuth ``p`` and roll
+    ``q`` [rad]; returns the unit normal's and the unit long axis's components [-]."""
+    ct, st = math.cos(t), math.sin(t)
+    cp, sp = math.cos(p), math.sin(p)
+    cr, sr = math.cos(q), math.sin(q)
+    return (
+        ct * cp,
+        ct * sp,
+        st,
+        cr * -sp + sr * (-st * cp),
+        cr * cp + sr * (-st * sp),
+        cr * 0.0 + sr * ct,
+    )
 
 
 @numba.njit(cache=True, error_model="numpy")
 def _face_all(tilt, azimuth, roll, normal, axis):
     """:func:`impact.geometry.face_orientation` on every ball."""
     for i in range(normal.shape[0]):
-        t = tilt[_at(tilt, i)]
-        p = azimuth[_at(azimuth, i)]
-        q = roll[_at(roll, i)]
-        ct, st = math.cos(t), math.sin(t)
-        cp, sp = math.cos(p), math.sin(p)
-        cr, sr = math.cos(q), math.sin(q)
-        normal[i, 0] = ct * cp
-        normal[i, 1] = ct * sp
-        normal[i, 2] = st
-        axis[i, 0] = cr * -sp + sr * (-st * cp)
-        axis[i, 1] = cr * cp + sr * (-st * sp)
-        axis[i, 2] = cr * 0.0 + sr * ct
+        n0, n1, n2, a0, a1, a2 = _face_ball(
+            tilt[_at(tilt, i)], azimuth[_at(azimuth, i)], roll[_at(roll, i)]
+        )
+        normal[i, 0], normal[i, 1], normal[i, 2] = n0, n1, n2
+        axis[i, 0], axis[i, 1], axis[i, 2] = a0, a1, a2
+
+
+@numba.njit(cache=True, error_model="numpy")
+def _swing_ball(s, p, d):
+    """:func:`impact.geometry.swing_velocity` of one swing: speed ``s`` [m/s], path ``p`` and
+    direction ``d`` [rad]; returns the velocity's components [m/s]."""
+    cp = math.cos(p)
+    return s * (cp * math.cos(d)), s * (cp * math.sin(d)), s * math.sin(p)
 
 
 @numba.njit(cache=True, error_model="numpy")
 def _swing_all(speed, path, direction, out):
     """:func:`impact.geometry.swing_velocity` on every ball."""
     for i in range(out.shape[0]):
-        s = speed[_at(speed, i)]
-        p = path[_at(path, i)]
-        d = direction[_at(direction, i)]
-        cp = math.cos(p)
-        out[i, 0] = s * (cp * math.cos(d))
-        out[i, 1] = s * (cp * math.sin(d))
-        out[i, 2] = s * math.sin(p)
+        v0, v1, v2 = _swing_ball(
+            speed[_at(speed, i)], path[_at(path, i)], direction[_at(direction, i)]
+        )
+        out[i, 0], out[i, 1], out[i, 2] = v0, v1, v2
 
 
 def _vectors(x, name):

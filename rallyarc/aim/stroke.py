@@ -89,7 +89,11 @@ def aim_stroke(
     engine : {"numpy", "compiled"}
         The impact and the integrator of the residual's first flight
         (:mod:`rallyarc.aim.first`): numpy, or the numba-compiled kernels, for callers that
-        solve many batches and can pay for their compile (or cache load) on first use. The
+        solve many batches and can pay for their compile (or cache load) on first use. With
+        "compiled", method "newton" and no receiver height, the whole solve runs compiled
+        (:mod:`rallyarc.aim.compiled`: the numpy solver's iteration with the same residual,
+        one target at a time) where the conditions' racket and aero model have compiled forms;
+        the final metrics and verdicts come from the residual's path as with numpy. The
         residuals that need the bounce (a receiver height) and the shots played for
         ``result`` use numpy.
 
@@ -133,7 +137,12 @@ def aim_stroke(
         use = np.isfinite(guess) if active is None else np.isfinite(guess) & active
         p0 = np.where(use, guess, p0)
     p0 = np.clip(p0, lo, hi)
-    p, ok, iters = solve(system.evaluate, p0, lo, hi, scale, method=method, active=active)
+    solved = None
+    if engine == "compiled" and method == "newton" and receiver_height is None:
+        solved = _compiled_solve(system, p0, lo, hi, scale, active)
+    if solved is None:
+        solved = solve(system.evaluate, p0, lo, hi, scale, method=method, active=active)
+    p, ok, iters = solved
     every = np.arange(n)
     result = system.run(p, every, record=True) if play else None
     m = result.metrics if play else system.first(p, every)
@@ -142,6 +151,18 @@ def aim_stroke(
     settings = {name: p[:, j] for j, name in enumerate(names)}
     swing = system.swings(p, every)
     return AimResult(settings, ok, reason, result, tx, ty, iters, metrics=m, swing=swing)
+
+
+def _compiled_solve(system, p0, lo, hi, scale, active):
+    """The compiled solve of :mod:`rallyarc.aim.compiled` (numba loads on first use), or None
+    where the conditions have no compiled form or a target's inputs are refused (the numpy
+    solver then solves the batch)."""
+    from rallyarc.aim import compiled
+
+    if not compiled.supports(system.conditions):
+        return None
+    out = compiled.solve_stroke(system, p0, lo, hi, scale, active)
+    return None if out is None else out[:3]
 
 
 class _StrokeSystem:

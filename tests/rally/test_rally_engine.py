@@ -39,7 +39,9 @@ def test_rallies_played_compiled_are_the_rallies_played_with_numpy(monkeypatch):
     monkeypatch.setattr(rounds, "aim_stroke", spy(aim))
     got = play_rallies(patterns, n=300, seed=1)
     assert set(engines) == {"compiled"}
-    assert len(struck) > 100  # the shots and the aim's residuals strike compiled
+    # the shots and the aims' final metrics strike with compiled.hit (the aims' iterations
+    # strike inside the compiled solve, rallyarc.aim.compiled)
+    assert len(struck) > 50
 
     def with_numpy(call):
         def numpys(*args, **kw):

@@ -1,0 +1,159 @@
+"""The compiled stroke solve (rallyarc.aim.compiled, taken by ``aim_stroke(engine="compiled")``)
+against the numpy solver (rallyarc.aim.solver.solve, method "newton") on the same residual, the
+compiled one of the numpy path: the same verdicts, the same iteration count and the same
+parameters on thousands of targets, with and without a net clearance, with NaN clearances mixed
+in, with and without a start; and 300 demo_match rallies with the same tables.
+
+On the machine these tests were written on the parameters are bit for bit the numpy solver's
+(the compiled sums follow the order of numpy's BLAS); the tests bound them at 1e-9.
+"""
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from rallyarc import domain
+from rallyarc.aim import aim_stroke, stroke
+from rallyarc.aim import compiled as aim_compiled
+from rallyarc.aim.solver import solve
+from rallyarc.shot import BallState
+
+
+def _cases(n, seed=3):
+    """n incoming balls scattered around the demo's, random targets and three stroke styles
+    (the draw of tests/aim/test_aim_solver.py)."""
+    rng = np.random.default_rng(seed)
+    sc = domain.load_scenario("demo")
+    inc = BallState.of(*domain.incoming_state(sc.incoming))
+    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
+    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
+    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
+    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
+    tx, ty = rng.uniform(4.0, 12.5, n), rng.uniform(-4.5, 4.5, n)
+    strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
+    return sc, BallState(pos, vel, spin), strokes, rng.integers(0, 3, n), tx, ty
+
+
+@pytest.fixture
+def compiled_calls(monkeypatch):
+    """Counts the compiled solves that ran (returned a solution)."""
+    calls = []
+    solve_stroke = aim_compiled.solve_stroke
+
+    def counted(*args, **kw):
+        out = solve_stroke(*args, **kw)
+        calls.append(out is not None)
+        return out
+
+    monkeypatch.setattr(aim_compiled, "solve_stroke", counted)
+    return calls
+
+
+def _numpy_solver(monkeypatch):
+    """From here on, aim_stroke solves with the numpy solver whatever the engine."""
+    monkeypatch.setattr(stroke, "_compiled_solve", lambda *args: None)
+
+
+def _goal(kind, n, rng):
+    if kind == "none":
+        return None
+    if kind == "all":
+        return rng.uniform(0.6, 1.8, n)
+    return np.where(rng.random(n) < 0.4, rng.uniform(0.6, 1.8, n), np.nan)
+
+
+@pytest.mark.parametrize("start", [False, True])
+@pytest.mark.parametrize("kind", ["none", "all", "mixed"])
+def test_the_compiled_solve_is_the_numpy_solvers(kind, start, compiled_calls, monkeypatch):
+    n = 3000 if kind == "none" else 1500
+    sc, inc, strokes, which, tx, ty = _cases(n, seed=11)
+    rng = np.random.default_rng(12)
+    clearance = _goal(kind, n, rng)
+    kw = {"which": which, "clearance": clearance, "play": False, "engine": "compiled"}
+    guess = None
+    if start:
+        # face tilt, swing direction [rad] and, with a clearance, head speed [m/s]
+        lo, hi = (
+            [np.radians(-10.0), np.radians(-20.0), 15.0],
+            [np.radians(30.0), np.radians(20.0), 40.0],
+        )
+        k = 2 if clearance is None else 3
+        guess = rng.uniform(lo[:k], hi[:k], (n, k))
+        # some start face down, into the ground short of the net (no clearance there)
+        guess[rng.random(n) < 0.2, 0] = np.radians(-38.0)
+        guess[rng.random((n, k)) < 0.15] = np.nan  # the default start for these
+    got = aim_stroke(inc, strokes, sc.conditions, tx, ty, start=guess, **kw)
+    assert compiled_calls == [True]
+    _numpy_solver(monkeypatch)
+    want = aim_stroke(inc, strokes, sc.conditions, tx, ty, start=guess, **kw)
+    assert compiled_calls == [True]  # the reference did not run the compiled solve
+    assert list(got.settings) == list(want.settings)
+    for name in want.settings:
+        np.testing.assert_allclose(got.settings[name], want.settings[name], rtol=0, atol=1e-9)
+    np.testing.assert_array_equal(got.reachable, want.reachable)
+    np.testing.assert_array_equal(got.reason, want.reason)
+    assert got.iterations == want.iterations <= 30
+    # a real solve: most targets are reached, some are not, and some need many iterations
+    assert 0.5 < want.reachable.mean() < 1.0
+    assert want.iterations >= 5
+
+
+def test_each_targets_iterations_and_the_cap(compiled_calls, monkeypatch):
+    # the batch's count is the largest of the targets' counts, as numpy counts for the batch;
+    # a lower cap stops both solvers at the same parameters
+    sc, inc, strokes, which, tx, ty = _cases(400, seed=13)
+    system_of = {}
+    solve_stroke = aim_compiled.solve_stroke
+
+    def kept(system, p0, lo, hi, scale, active=None, iterations=30):
+        system_of["args"] = (system, p0.copy(), lo, hi, scale, active)
+        return solve_stroke(system, p0, lo, hi, scale, active, iterations)
+
+    monkeypatch.setattr(aim_compiled, "solve_stroke", kept)
+    res = aim_stroke(
+        inc, strokes, sc.conditions, tx, ty, which=which, play=False, engine="compiled"
+    )
+    system, p0, lo, hi, scale, active = system_of["args"]
+    p, solved, iters, each = solve_stroke(system, p0, lo, hi, scale, active)
+    assert iters == res.iterations == each.max()
+    assert len(set(each.tolist())) >= 3  # targets stop after different counts
+
+    for cap in (1, 3):
+        p_c, ok_c, it_c, each_c = solve_stroke(system, p0, lo, hi, scale, active, cap)
+        p_n, ok_n, it_n = solve(system.evaluate, p0, lo, hi, scale, iterations=cap)
+        assert it_c == it_n == cap
+        assert (each_c <= cap).all()
+        np.testing.assert_array_equal(ok_c, ok_n)
+        np.testing.assert_allclose(p_c, p_n, rtol=0, atol=1e-9)
+
+
+def test_what_the_compiled_solve_does_not_take_goes_to_numpy(compiled_calls):
+    sc, inc, strokes, which, tx, ty = _cases(20, seed=14)
+    kw = {"which": which, "play": False}
+    aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="numpy", **kw)
+    aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="compiled", method="broyden", **kw)
+    aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="compiled", receiver_height=1.0, **kw)
+    assert compiled_calls == []
+    aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="compiled", free="speed", **kw)
+    assert compiled_calls == [True]
+
+
+def test_rallies_with_the_compiled_solve_are_the_numpy_solvers(compiled_calls, monkeypatch):
+    from rallyarc.rally import load_patterns, play_rallies
+
+    patterns = load_patterns("demo_match")
+    got = play_rallies(patterns, n=300, seed=1, workers=1)
+    assert len(compiled_calls) > 20 and all(compiled_calls)
+    _numpy_solver(monkeypatch)
+    n_calls = len(compiled_calls)
+    want = play_rallies(patterns, n=300, seed=1, workers=1)
+    assert len(compiled_calls) == n_calls
+    pd.testing.assert_frame_equal(got.rallies, want.rallies)
+    assert len(got.shots) == len(want.shots) > 600
+    for col in want.shots.columns:
+        a, b = got.shots[col].to_numpy(), want.shots[col].to_numpy()
+        if b.dtype.kind == "f":
+            np.testing.assert_array_equal(np.isnan(a), np.isnan(b), err_msg=col)
+            np.testing.assert_allclose(a, b, rtol=1e-9, atol=1e-9, err_msg=col)
+        else:
+            np.testing.assert_array_equal(a, b, err_msg=col)
