@@ -12,26 +12,9 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from rallyarc import domain
 from rallyarc.aim import aim_stroke, stroke
 from rallyarc.aim import compiled as aim_compiled
 from rallyarc.aim.solver import solve
-from rallyarc.shot import BallState
-
-
-def _cases(n, seed=3):
-    """n incoming balls scattered around the demo's, random targets and three stroke styles
-    (the draw of tests/aim/test_aim_solver.py)."""
-    rng = np.random.default_rng(seed)
-    sc = domain.load_scenario("demo")
-    inc = BallState.of(*domain.incoming_state(sc.incoming))
-    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
-    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
-    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
-    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
-    tx, ty = rng.uniform(4.0, 12.5, n), rng.uniform(-4.5, 4.5, n)
-    strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
-    return sc, BallState(pos, vel, spin), strokes, rng.integers(0, 3, n), tx, ty
 
 
 @pytest.fixture
@@ -64,9 +47,11 @@ def _goal(kind, n, rng):
 
 @pytest.mark.parametrize("start", [False, True])
 @pytest.mark.parametrize("kind", ["none", "all", "mixed"])
-def test_the_compiled_solve_is_the_numpy_solvers(kind, start, compiled_calls, monkeypatch):
+def test_the_compiled_solve_is_the_numpy_solvers(
+    kind, start, compiled_calls, monkeypatch, aim_cases
+):
     n = 3000 if kind == "none" else 1500
-    sc, inc, strokes, which, tx, ty = _cases(n, seed=11)
+    sc, inc, strokes, which, tx, ty = aim_cases(n, seed=11)
     rng = np.random.default_rng(12)
     clearance = _goal(kind, n, rng)
     kw = {"which": which, "clearance": clearance, "play": False, "engine": "compiled"}
@@ -98,10 +83,10 @@ def test_the_compiled_solve_is_the_numpy_solvers(kind, start, compiled_calls, mo
     assert want.iterations >= 5
 
 
-def test_each_targets_iterations_and_the_cap(compiled_calls, monkeypatch):
+def test_each_targets_iterations_and_the_cap(compiled_calls, monkeypatch, aim_cases):
     # the batch's count is the largest of the targets' counts, as numpy counts for the batch;
     # a lower cap stops both solvers at the same parameters
-    sc, inc, strokes, which, tx, ty = _cases(400, seed=13)
+    sc, inc, strokes, which, tx, ty = aim_cases(400, seed=13)
     system_of = {}
     solve_stroke = aim_compiled.solve_stroke
 
@@ -127,8 +112,8 @@ def test_each_targets_iterations_and_the_cap(compiled_calls, monkeypatch):
         np.testing.assert_allclose(p_c, p_n, rtol=0, atol=1e-9)
 
 
-def test_what_the_compiled_solve_does_not_take_goes_to_numpy(compiled_calls):
-    sc, inc, strokes, which, tx, ty = _cases(20, seed=14)
+def test_what_the_compiled_solve_does_not_take_goes_to_numpy(compiled_calls, aim_cases):
+    sc, inc, strokes, which, tx, ty = aim_cases(20, seed=14)
     kw = {"which": which, "play": False}
     aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="numpy", **kw)
     aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="compiled", method="broyden", **kw)

@@ -11,24 +11,10 @@ from rallyarc.aim.first import struck
 from rallyarc.shot import BallState, Swing, simulate
 
 
-def _cases(n, seed=3):
-    """n incoming balls scattered around the demo's, random targets and three stroke styles."""
-    rng = np.random.default_rng(seed)
-    sc = domain.load_scenario("demo")
-    inc = BallState.of(*domain.incoming_state(sc.incoming))
-    pos = inc.position + rng.normal(0.0, [0.5, 1.5, 0.2], (n, 3))
-    pos[:, 2] = np.clip(pos[:, 2], 0.4, 1.6)
-    vel = inc.velocity * rng.uniform(0.7, 1.3, (n, 1)) + rng.normal(0.0, 1.0, (n, 3))
-    spin = inc.spin * rng.uniform(-0.5, 1.5, (n, 1))
-    tx, ty = rng.uniform(4.0, 12.5, n), rng.uniform(-4.5, 4.5, n)
-    strokes = [domain.load_stroke(s) for s in ("topspin_drive", "slice", "heavy_topspin")]
-    return sc, BallState(pos, vel, spin), strokes, rng.integers(0, 3, n), tx, ty
-
-
-def test_the_first_flight_gives_the_whole_chains_numbers():
+def test_the_first_flight_gives_the_whole_chains_numbers(aim_cases):
     # the aim's residual flies only to the first bounce, with two events: its numbers must be
     # the whole chain's, bit for bit, so the solutions are the same as with the whole chain
-    sc, inc, strokes, which, _, _ = _cases(3000)
+    sc, inc, strokes, which, _, _ = aim_cases(3000)
     rng = np.random.default_rng(5)
     base = Swing.from_strokes(strokes)
     swing = Swing(**{f: getattr(base, f)[which] for f in Swing.FIELDS})
@@ -50,9 +36,9 @@ def test_the_first_flight_gives_the_whole_chains_numbers():
 
 
 @pytest.mark.parametrize("clearance", [None, 1.2])
-def test_broyden_and_newton_agree_on_thousands_of_targets(clearance):
+def test_broyden_and_newton_agree_on_thousands_of_targets(clearance, aim_cases):
     n = 2000 if clearance is None else 1000
-    sc, inc, strokes, which, tx, ty = _cases(n)
+    sc, inc, strokes, which, tx, ty = aim_cases(n)
     kw = {"which": which, "clearance": clearance, "play": False}
     newton = aim_stroke(inc, strokes, sc.conditions, tx, ty, method="newton", **kw)
     broyden = aim_stroke(inc, strokes, sc.conditions, tx, ty, method="broyden", **kw)
@@ -70,8 +56,8 @@ def test_broyden_and_newton_agree_on_thousands_of_targets(clearance):
             assert np.abs(got - clearance).max() <= 0.02 + 1e-9
 
 
-def test_targets_with_and_without_a_clearance_solve_together_as_apart():
-    sc, inc, strokes, which, tx, ty = _cases(60, seed=8)
+def test_targets_with_and_without_a_clearance_solve_together_as_apart(aim_cases):
+    sc, inc, strokes, which, tx, ty = aim_cases(60, seed=8)
     goal = np.where(np.arange(60) % 3 == 0, 1.3, np.nan)
     has = np.isfinite(goal)
     for method in ("newton", "broyden"):
@@ -100,8 +86,8 @@ def test_targets_with_and_without_a_clearance_solve_together_as_apart():
         )
 
 
-def test_an_unplayed_aim_gives_the_played_aims_swings_and_verdicts():
-    sc, inc, strokes, which, tx, ty = _cases(40, seed=11)
+def test_an_unplayed_aim_gives_the_played_aims_swings_and_verdicts(aim_cases):
+    sc, inc, strokes, which, tx, ty = aim_cases(40, seed=11)
     played = aim_stroke(inc, strokes, sc.conditions, tx, ty, which=which)
     bare = aim_stroke(inc, strokes, sc.conditions, tx, ty, which=which, play=False)
     assert bare.result is None and played.result is not None
@@ -112,17 +98,17 @@ def test_an_unplayed_aim_gives_the_played_aims_swings_and_verdicts():
     assert np.array_equal(bare.landing(), played.landing(), equal_nan=True)
 
 
-def test_an_unknown_method_is_refused():
-    sc, inc, strokes, which, tx, ty = _cases(2)
+def test_an_unknown_method_is_refused(aim_cases):
+    sc, inc, strokes, which, tx, ty = aim_cases(2)
     with pytest.raises(ValueError, match="method"):
         aim_stroke(inc, strokes, sc.conditions, tx, ty, which=which, method="guess")
 
 
-def test_the_compiled_first_flight_gives_the_numpy_aims_verdicts_and_landings():
+def test_the_compiled_first_flight_gives_the_numpy_aims_verdicts_and_landings(aim_cases):
     # the rally's engine: the residual's first flight compiled (rallyarc.flight.compiled), the
     # same algorithm as numpy's to about 1e-12; the solves must end with the same verdicts
     # and land within 1e-6 m of each other on thousands of targets
-    sc, inc, strokes, which, tx, ty = _cases(2000)
+    sc, inc, strokes, which, tx, ty = aim_cases(2000)
     kw = {"which": which, "play": False}
     ref = aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="numpy", **kw)
     got = aim_stroke(inc, strokes, sc.conditions, tx, ty, engine="compiled", **kw)
@@ -136,7 +122,7 @@ def test_the_compiled_first_flight_gives_the_numpy_aims_verdicts_and_landings():
 
 
 def test_the_compiled_engine_flies_with_numpy_when_the_aero_model_has_no_compiled_form(
-    monkeypatch,
+    monkeypatch, aim_cases
 ):
     from rallyarc.aim.first import _flight
     from rallyarc.flight import compiled
@@ -149,7 +135,7 @@ def test_the_compiled_engine_flies_with_numpy_when_the_aero_model_has_no_compile
         def lift_slope(self, s):
             return np.full_like(np.asarray(s, dtype=float), 1.0)
 
-    _, inc, _, _, _, _ = _cases(50)
+    _, inc, _, _, _, _ = aim_cases(50)
     calls = []
     kernel = compiled.fly_net_and_ground
     monkeypatch.setattr(
@@ -166,18 +152,18 @@ def test_the_compiled_engine_flies_with_numpy_when_the_aero_model_has_no_compile
     assert np.array_equal(got.n_steps, want.n_steps)
     with pytest.raises(ValueError, match="engine"):
         _flight(inc, supported, 1e-6, engine="fast")
-    sc, inc2, strokes, which, tx, ty = _cases(2)
+    sc, inc2, strokes, which, tx, ty = aim_cases(2)
     with pytest.raises(ValueError, match="engine"):
         aim_stroke(inc2, strokes, sc.conditions, tx, ty, which=which, engine="fast")
 
 
-def test_the_residual_strikes_compiled_with_the_compiled_engine(monkeypatch):
+def test_the_residual_strikes_compiled_with_the_compiled_engine(monkeypatch, aim_cases):
     # struck(..., engine="compiled") plays the impact with rallyarc.impact.compiled.hit: the
     # same impact, net and landing metrics as numpy's on thousands of swings (floats within
     # 1e-9, NaN alike, strings and flags equal)
     from rallyarc.impact import compiled
 
-    sc, inc, strokes, which, _, _ = _cases(3000, seed=8)
+    sc, inc, strokes, which, _, _ = aim_cases(3000, seed=8)
     rng = np.random.default_rng(9)
     base = Swing.from_strokes(strokes)
     fields = {f: getattr(base, f)[which] for f in Swing.FIELDS}
