@@ -48,7 +48,7 @@ import math
 import numba
 import numpy as np
 
-from .contact import _UNIT_TOL, ContactResult
+from .contact import _UNIT_TOL, ContactResult, named_inputs, tangential_inverse_mass
 from .racket import SWINGWEIGHT_AXIS_M
 
 __all__ = ["collide", "face_orientation", "hit", "supports", "swing_velocity"]
@@ -488,22 +488,10 @@ def _swing_all(speed, path, direction, out):
         out[i, 0], out[i, 1], out[i, 2] = v0, v1, v2
 
 
-def _vectors(x, name):
-    arr = np.asarray(x, dtype=float)
-    if arr.ndim == 1:
-        arr = arr[None, :]
-    if arr.ndim != 2 or arr.shape[1] != 3:
-        raise ValueError(f"{name} must have shape (3,) or (N, 3), got {np.shape(x)}")
-    return np.ascontiguousarray(arr)
-
-
-def _scalars(x, name):
-    arr = np.asarray(x, dtype=float)
-    if arr.ndim == 0:
-        return arr.reshape(1)
-    if arr.ndim != 1:
-        raise ValueError(f"{name} must be a number or have shape (N,), got {np.shape(x)}")
-    return np.ascontiguousarray(arr)
+def _contiguous_inputs(vectors, scalars):
+    """:func:`impact.contact.named_inputs`, each array C-contiguous for the kernels."""
+    vecs, nums = named_inputs(vectors, scalars)
+    return [np.ascontiguousarray(x) for x in vecs], [np.ascontiguousarray(x) for x in nums]
 
 
 def _batch(arrays):
@@ -608,36 +596,19 @@ def collide(
     .. [1] R. Cross, Am. J. Phys. 70, 1093 (2002), doi:10.1119/1.1507792.
     .. [2] R. Cross, Am. J. Phys. 73, 914 (2005), doi:10.1119/1.2008299.
     """
-    vectors = [
-        _vectors(x, name)
-        for x, name in (
-            (ball_velocity, "ball_velocity"),
-            (ball_spin, "ball_spin"),
-            (face_velocity, "face_velocity"),
-            (face_normal, "face_normal"),
-            (face_axis, "face_axis"),
-        )
-    ]
-    scalars = [
-        _scalars(x, name)
-        for x, name in (
-            (ball_mass, "ball_mass"),
-            (ball_radius, "ball_radius"),
-            (ball_alpha, "ball_alpha"),
-            (racket_inv_mass_normal, "racket_inv_mass_normal"),
-            (e_n, "e_n"),
-            (mu, "mu"),
-            (e_t, "e_t"),
-        )
-    ]
-    k_r = np.asarray(racket_inv_mass_tangential, dtype=float)
-    if k_r.ndim == 2:
-        k_r = k_r[None]
-    if k_r.ndim != 3 or k_r.shape[1:] != (2, 2):
-        raise ValueError(
-            f"racket_inv_mass_tangential must have shape (2, 2) or (N, 2, 2), got {k_r.shape}"
-        )
-    k_r = np.ascontiguousarray(k_r)
+    vectors, scalars = _contiguous_inputs(
+        (ball_velocity, ball_spin, face_velocity, face_normal, face_axis),
+        (
+            ("ball_mass", ball_mass),
+            ("ball_radius", ball_radius),
+            ("ball_alpha", ball_alpha),
+            ("racket_inv_mass_normal", racket_inv_mass_normal),
+            ("e_n", e_n),
+            ("mu", mu),
+            ("e_t", e_t),
+        ),
+    )
+    k_r = np.ascontiguousarray(tangential_inverse_mass(racket_inv_mass_tangential))
     n_balls = _batch([*vectors, *scalars, k_r])
     v, w, face_v, n, a = vectors
     m, r, alpha, inv_big_m, e_n, mu, e_t = scalars
@@ -703,29 +674,19 @@ def hit(
             "no compiled impact for a racket whose mass properties are not plain numbers; "
             "use impact.contact.hit"
         )
-    vectors = [
-        _vectors(x, name)
-        for x, name in (
-            (ball_velocity, "ball_velocity"),
-            (ball_spin, "ball_spin"),
-            (face_velocity, "face_velocity"),
-            (face_normal, "face_normal"),
-            (face_axis, "face_axis"),
-        )
-    ]
-    scalars = [
-        _scalars(x, name)
-        for x, name in (
-            (impact_from_butt_m, "impact_from_butt_m"),
-            (offaxis_m, "offaxis_m"),
-            (ball_mass, "ball_mass"),
-            (ball_radius, "ball_radius"),
-            (ball_alpha, "ball_alpha"),
-            (e_n, "e_n"),
-            (mu, "mu"),
-            (e_t, "e_t"),
-        )
-    ]
+    vectors, scalars = _contiguous_inputs(
+        (ball_velocity, ball_spin, face_velocity, face_normal, face_axis),
+        (
+            ("impact_from_butt_m", impact_from_butt_m),
+            ("offaxis_m", offaxis_m),
+            ("ball_mass", ball_mass),
+            ("ball_radius", ball_radius),
+            ("ball_alpha", ball_alpha),
+            ("e_n", e_n),
+            ("mu", mu),
+            ("e_t", e_t),
+        ),
+    )
     n_balls = _batch([*vectors, *scalars])
     v, w, face_v, n, a = vectors
     x, d, m, r, alpha, e_n, mu, e_t = scalars

@@ -210,35 +210,19 @@ def collide(
     .. [4] R. Cross, Sports Engineering 6, 235 (2003).
     .. [5] H. Brody, Am. J. Phys. 65, 981 (1997).
     """
-    vectors = [
-        _vectors(x, name)
-        for x, name in (
-            (ball_velocity, "ball_velocity"),
-            (ball_spin, "ball_spin"),
-            (face_velocity, "face_velocity"),
-            (face_normal, "face_normal"),
-            (face_axis, "face_axis"),
-        )
-    ]
-    scalars = [
-        _scalars(x, name)
-        for x, name in (
-            (ball_mass, "ball_mass"),
-            (ball_radius, "ball_radius"),
-            (ball_alpha, "ball_alpha"),
-            (racket_inv_mass_normal, "racket_inv_mass_normal"),
-            (e_n, "e_n"),
-            (mu, "mu"),
-            (e_t, "e_t"),
-        )
-    ]
-    k_r = np.asarray(racket_inv_mass_tangential, dtype=float)
-    if k_r.ndim == 2:
-        k_r = k_r[None]
-    if k_r.ndim != 3 or k_r.shape[1:] != (2, 2):
-        raise ValueError(
-            f"racket_inv_mass_tangential must have shape (2, 2) or (N, 2, 2), got {k_r.shape}"
-        )
+    vectors, scalars = named_inputs(
+        (ball_velocity, ball_spin, face_velocity, face_normal, face_axis),
+        (
+            ("ball_mass", ball_mass),
+            ("ball_radius", ball_radius),
+            ("ball_alpha", ball_alpha),
+            ("racket_inv_mass_normal", racket_inv_mass_normal),
+            ("e_n", e_n),
+            ("mu", mu),
+            ("e_t", e_t),
+        ),
+    )
+    k_r = tangential_inverse_mass(racket_inv_mass_tangential)
     try:
         n_balls = np.broadcast_shapes(
             *[x.shape[:1] for x in vectors], *[x.shape for x in scalars], k_r.shape[:1]
@@ -398,6 +382,33 @@ def _dot(x, y):
 
 def _norm(x):
     return np.sqrt(_dot(x, x))
+
+
+#: The contact's vector arguments, in the order :func:`named_inputs` takes them.
+VECTOR_ARGUMENTS = ("ball_velocity", "ball_spin", "face_velocity", "face_normal", "face_axis")
+
+
+def named_inputs(vectors, scalars):
+    """The contact's inputs as arrays, each checked against its argument's name: the five
+    vectors of :data:`VECTOR_ARGUMENTS` as ``(1 or N, 3)`` and the ``(name, value)`` numbers
+    as ``(1 or N,)``; a ValueError names the argument of a wrong shape."""
+    return (
+        [_vectors(x, name) for x, name in zip(vectors, VECTOR_ARGUMENTS, strict=True)],
+        [_scalars(x, name) for name, x in scalars],
+    )
+
+
+def tangential_inverse_mass(k_r):
+    """The racket's tangential inverse mass as ``(1 or N, 2, 2)`` [1/kg]; a ValueError for
+    any other shape."""
+    k_r = np.asarray(k_r, dtype=float)
+    if k_r.ndim == 2:
+        k_r = k_r[None]
+    if k_r.ndim != 3 or k_r.shape[1:] != (2, 2):
+        raise ValueError(
+            f"racket_inv_mass_tangential must have shape (2, 2) or (N, 2, 2), got {k_r.shape}"
+        )
+    return k_r
 
 
 def _vectors(x, name):
