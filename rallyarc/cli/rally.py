@@ -32,7 +32,7 @@ OUTPUTS = (
 )
 MAX_RALLIES = 200_000
 #: Rallies a worker plays per second, about (the demo patterns on the two-core machine:
-#: benchmarks/rally.py played 5,000 in 2.1 s in one process, 10,000 in 2.4 s on two, with the
+#: benchmarks/rally.py played 5,000 in 1.9 s in one process, 10,000 in 2.2 s on two, with the
 #: compiled kernels loaded); runs of at least LONG_RUN rallies start with an estimate of their
 #: duration.
 RALLIES_PER_WORKER_S = 2000.0
@@ -94,7 +94,7 @@ def _estimate(n, procs):
     return (
         f"rallyarc: {n} rallies on {workers} worker(s): about {took} at about "
         f"{RALLIES_PER_WORKER_S:.0f} rallies/s per worker (the first run after an install "
-        "compiles the rally kernels first, about 15 s); the progress bar (on a terminal) "
+        "compiles the rally kernels first, about 25 s); the progress bar (on a terminal) "
         "shows the time remaining"
     )
 
