@@ -124,11 +124,18 @@ def _stacked_balls(members):
     )
 
 
+#: Shots of a stroke style solved first, on their own, when the block's warm start has no fit
+#: of that style yet and the round has at least twice as many (the first serves, the first
+#: returns): their solutions give the rest of the round a start.
+PILOT_SHOTS = 96
+
+
 def _solve_swings(turns, warm):
     """Step 4: one batched solve per aim style and racket, over both hitters (when they play
     with the same racket), every stroke style and every live rally, targets with a net
     clearance to meet beside targets without one, each solve starting where ``warm`` (the
-    block's :class:`rallyarc.rally.warm.WarmStart`) guesses; fills each turn's ``solved``
+    block's :class:`rallyarc.rally.warm.WarmStart`) guesses (a style it has not learnt yet
+    first solves :data:`PILOT_SHOTS` of its shots to learn from); fills each turn's ``solved``
     swing and ``reachable``, and teaches ``warm`` the solutions."""
     groups = {}
     for t in turns:
@@ -137,39 +144,53 @@ def _solve_swings(turns, warm):
             if k.size:
                 groups.setdefault((s.aim, t.player.racket_name), []).append((t, k, s))
     for members in groups.values():
-        t0, _, s0 = members[0]
-        sizes = [k.size for _, k, _ in members]
-        clearance = None
-        if any(s.clearance is not None for _, _, s in members):
-            # NaN: that target has no clearance to meet (it solves as it would alone)
-            goals = [np.nan if s.clearance is None else s.clearance for _, _, s in members]
-            clearance = np.repeat(np.asarray(goals, float), sizes)
-        names = free_parameters(s0.aim, third=clearance is not None)
-        start = np.concatenate(
-            [warm.guess(_style(t, s), _ball_of(t, k), *t.aimed[k].T, names) for t, k, s in members]
-        )
-        res = aim_stroke(
-            _stacked_balls(members),
-            [s.stroke for _, _, s in members],
-            t0.player.conditions,
-            np.concatenate([t.aimed[k, 0] for t, k, _ in members]),
-            np.concatenate([t.aimed[k, 1] for t, k, _ in members]),
-            free=s0.aim,
-            clearance=clearance,
-            which=np.repeat(np.arange(len(members)), sizes),
-            play=False,
-            engine="compiled",
-            start=start,
-        )
-        at = 0
-        for t, k, s in members:
-            part = slice(at, at + k.size)
-            at += k.size
+        pilot = [
+            (t, k[:PILOT_SHOTS], s)
+            for t, k, s in members
+            if k.size >= 2 * PILOT_SHOTS and not warm.ready(_style(t, s))
+        ]
+        if pilot:
+            _solve_group(pilot, warm, keep=False)
+        _solve_group(members, warm)
+
+
+def _solve_group(members, warm, keep=True):
+    """One batched solve of a group's members ``(turn, k, entry)``; the solutions teach
+    ``warm`` and, when ``keep``, fill the turns' ``solved`` and ``reachable``."""
+    t0, _, s0 = members[0]
+    sizes = [k.size for _, k, _ in members]
+    clearance = None
+    if any(s.clearance is not None for _, _, s in members):
+        # NaN: that target has no clearance to meet (it solves as it would alone)
+        goals = [np.nan if s.clearance is None else s.clearance for _, _, s in members]
+        clearance = np.repeat(np.asarray(goals, float), sizes)
+    names = free_parameters(s0.aim, third=clearance is not None)
+    start = np.concatenate(
+        [warm.guess(_style(t, s), _ball_of(t, k), *t.aimed[k].T, names) for t, k, s in members]
+    )
+    res = aim_stroke(
+        _stacked_balls(members),
+        [s.stroke for _, _, s in members],
+        t0.player.conditions,
+        np.concatenate([t.aimed[k, 0] for t, k, _ in members]),
+        np.concatenate([t.aimed[k, 1] for t, k, _ in members]),
+        free=s0.aim,
+        clearance=clearance,
+        which=np.repeat(np.arange(len(members)), sizes),
+        play=False,
+        engine="compiled",
+        start=start,
+    )
+    at = 0
+    for t, k, s in members:
+        part = slice(at, at + k.size)
+        at += k.size
+        if keep:
             for f in Swing.FIELDS:
                 getattr(t.solved, f)[k] = getattr(res.swing, f)[part]
             t.reachable[k] = res.reachable[part]
-            swing = Swing(**{f: getattr(res.swing, f)[part] for f in Swing.FIELDS})
-            warm.learn(_style(t, s), _ball_of(t, k), *t.aimed[k].T, swing, res.reachable[part])
+        swing = Swing(**{f: getattr(res.swing, f)[part] for f in Swing.FIELDS})
+        warm.learn(_style(t, s), _ball_of(t, k), *t.aimed[k].T, swing, res.reachable[part])
 
 
 def _style(turn, entry):

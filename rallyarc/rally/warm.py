@@ -75,15 +75,19 @@ class WarmStart:
         sums[1] += x.T @ y
         sums[2] += x.shape[0]
 
+    def ready(self, key):
+        """Whether the fit of ``key`` has enough shots to guess from."""
+        sums = self._sums.get(key)
+        return sums is not None and sums[2] >= MIN_SHOTS
+
     def guess(self, key, ball, target_x, target_y, names):
         """Starting values ``(N, len(names))`` [SI] of the parameters ``names`` for N shots of
         ``key``; NaN where the fit has too few shots yet (the solver's default start)."""
         n = len(target_x)
         out = np.full((n, len(names)), np.nan)
-        sums = self._sums.get(key)
-        if sums is None or sums[2] < MIN_SHOTS:
+        if not self.ready(key):
             return out
-        xtx, xty, _ = sums
+        xtx, xty, _ = self._sums[key]
         ridge = RIDGE * np.trace(xtx) * np.diag(np.r_[0.0, np.ones(xtx.shape[0] - 1)])
         coef = np.linalg.solve(xtx + ridge, xty)
         pred = features(ball, target_x, target_y) @ coef
