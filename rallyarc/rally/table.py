@@ -156,14 +156,22 @@ def shot_table(rows, start):
     numbered from ``start``, each rally ball's ``replying_to`` the shot type it answers."""
     import pandas as pd
 
-    # one frame from each column's arrays joined (rounds hold the same columns, in order)
+    # one frame from each column's arrays joined (rounds hold the same columns, in order),
+    # sorted by rally and shot before the frame is made (a stable sort, as the frame's own)
     columns = {key: np.concatenate([r[key] for r in rows]) for key in rows[0]}
-    shots = pd.DataFrame(columns)
-    shots["rally"] += start
-    shots = shots.sort_values(["rally", "shot"], kind="stable").reset_index(drop=True)
-    previous = shots.groupby("rally")["shot_type"].shift(1)
-    shots.insert(7, "replying_to", np.where(shots["serve"] == "", previous.fillna(""), ""))
-    return shots
+    order = np.lexsort((columns["shot"], columns["rally"]))
+    columns = {key: value[order] for key, value in columns.items()}
+    columns["rally"] = columns["rally"] + start
+    # each rally ball answers the shot before it in its rally
+    kind, rally = columns["shot_type"], columns["rally"]
+    previous = np.where(np.r_[False, rally[1:] == rally[:-1]], np.r_[kind[:1], kind[:-1]], "")
+    replying = np.where(columns["serve"] == "", previous, "").astype(object)
+    keys = list(columns)
+    first, rest = keys[:7], keys[7:]
+    columns = (
+        {k: columns[k] for k in first} | {"replying_to": replying} | {k: columns[k] for k in rest}
+    )
+    return pd.DataFrame(columns)
 
 
 def rally_table(state, players, shots):
