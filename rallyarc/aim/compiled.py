@@ -1,6 +1,7 @@
 """The stroke aim's whole solve compiled with numba: for each target, the Levenberg-Marquardt
-iteration of :func:`rallyarc.aim.solver.solve` (method "newton") with its residual, one target
-at a time in a compiled loop instead of one round of numpy calls per iteration for the batch.
+iteration of :func:`rallyarc.aim.solver.solve` (method "newton" or "broyden") with its residual,
+one target at a time in a compiled loop instead of one round of numpy calls per iteration for
+the batch.
 
 The residual is :meth:`rallyarc.aim.stroke._StrokeSystem.evaluate` with the compiled engine: the
 swing of the parameters (the face azimuth turning with the swing direction), the string bed's
@@ -15,17 +16,24 @@ The iteration is the numpy solver's, step for step: the start clipped to the bou
 forward differences (a step of 1e-4 of the parameter's scale, downward at the upper bound), the
 inactive parameters pinned, the damped normal equations, the step clipped to five scales and
 the trial to the bounds, the damping times 0.3 after a success and 10 after a failure, the stop
-at a cost of at most 1 or a damping of 1e8, and the cap on iterations. Each target's iteration
-count is what the numpy solver counts for it; the batch's count is the largest.
+at a cost of at most 1 or a damping of 1e8, and the cap on iterations. Method "broyden" takes
+the differences at the start only and then, per iteration, either one trial step with
+Broyden's rank-one update of the Jacobian (in parameters measured in their scales) or fresh
+differences at the current point where the last step of an updated Jacobian failed or stalled
+(lowered the cost by less than :data:`rallyarc.aim.solver.STALL_RATIO`), with the numpy
+solver's damping rules (a failed step of a Jacobian from differences: ten times the damping;
+of an updated one: the same damping). Each target's iteration count is what the numpy solver
+counts for it; the batch's count is the largest.
 
 The normal equations are summed and solved in the order of the BLAS and LAPACK routines numpy
 calls for the numpy solver's arrays on the machine the parity tests were written on (``J'J``
 accumulated by fused multiply-adds in index order, ``J'r`` from the product of the first two
 terms onward, an LU factorisation with partial pivoting computed column by column, the back
-substitution from the last column): there the solutions are bit for bit numpy's, and the tests
-bound them at 1e-9 (tests/aim/test_aim_compiled.py). Another BLAS, or another memory layout of
-the numpy solver's Jacobians, may round the last bit differently, and the iteration may magnify
-that.
+substitution from the last column), and Broyden's ``J dq`` in index order as numpy's ``einsum``
+sums it over the numpy solver's Jacobians: there the solutions are bit for bit numpy's, and the
+tests bound them at 1e-9 (tests/aim/test_aim_compiled.py). Another BLAS, or another memory
+layout of the numpy solver's Jacobians (over C-ordered ones ``einsum`` sums the even terms of
+``J dq`` first), may round the last bit differently, and the iteration may magnify that.
 
 Targets whose inputs the impact or the flight would refuse (or whose normal equations are
 singular) are reported as refused, so that the caller solves the batch with numpy, which
@@ -47,7 +55,7 @@ from numba.core import types
 from numba.extending import intrinsic
 
 from rallyarc import court
-from rallyarc.aim.solver import HEIGHT_TOL_M, LAND_TOL_M
+from rallyarc.aim.solver import HEIGHT_TOL_M, LAND_TOL_M, METHODS, STALL_RATIO
 from rallyarc.domain.objects import Conditions, RacketSetup
 from rallyarc.flight import compiled as flight_kernels
 from rallyarc.impact import compiled as impact_kernels
@@ -80,6 +88,7 @@ _NET_CENTRE = court.NET_HEIGHT_CENTRE
 _NET_RISE = court.NET_HEIGHT_POST - court.NET_HEIGHT_CENTRE
 _LAND_TOL = LAND_TOL_M
 _HEIGHT_TOL = HEIGHT_TOL_M
+_STALL = STALL_RATIO
 
 
 @intrinsic
@@ -266,21 +275,34 @@ def _jacobian(q, r0, i, k, act, lo_hi, h, data, sc, work, jac, pert, rp):
         for e in range(k):
             d = (rp[e] - r0[e]) / step
             jac[e, j] = d if math.isfinite(d) else 0.0
-    # a system's j inactive parameters take its last j rows, in parameter order
+    _pin(jac, act, k)
+    return bad
+
+
+@numba.njit(cache=True, error_model="numpy")
+def _pin(jac, act, k):
+    """Pin the inactive parameters of ``jac`` (k eqs, k params) as the numpy solver's
+    ``_pinned`` does: no part in the active residuals (their columns zero), and an identity
+    row of their own in place of one of the zero residuals."""
     off = 0
     for j in range(k):
         if not act[j]:
             off += 1
-    if off:
-        for e in range(k - off, k):
-            for j in range(k):
+    if off == 0:
+        return
+    for j in range(k):
+        if not act[j]:
+            for e in range(k):
                 jac[e, j] = 0.0
-        row = k - off
+    # a system's j inactive parameters take its last j rows, in parameter order
+    for e in range(k - off, k):
         for j in range(k):
-            if not act[j]:
-                jac[row, j] = 1.0
-                row += 1
-    return bad
+            jac[e, j] = 0.0
+    row = k - off
+    for j in range(k):
+        if not act[j]:
+            jac[row, j] = 1.0
+            row += 1
 
 
 @numba.njit(cache=True, error_model="numpy")
@@ -437,16 +459,129 @@ def _solve_all(
     return bad
 
 
-def solve_stroke(system, p0, lo, hi, scale, active=None, iterations=30):
+@numba.njit(cache=True, error_model="numpy")
+def _broyden_update(jac, dq, dr, scale, act, k):
+    """Broyden's rank-one update of ``jac`` (k eqs, k params) in place from the step ``dq``
+    (k,) [SI] and the residual change ``dr`` (k,) [-], in parameters measured in ``scale``
+    (SI), as the numpy solver's ``_broyden_update`` computes it: no update where ``dr`` is not
+    finite or the step is zero, the inactive parameters pinned. ``J dq`` is summed in index
+    order, as numpy's ``einsum`` sums it over the numpy solver's Jacobians (whose parameter
+    axis is the outer one in memory)."""
+    norm = (dq[0] / scale[0]) * (dq[0] / scale[0])
+    for j in range(1, k):
+        du = dq[j] / scale[j]
+        norm = norm + du * du
+    ok = norm > 0.0
+    for e in range(k):
+        if not math.isfinite(dr[e]):
+            ok = False
+    if ok:
+        for e in range(k):
+            pred = jac[e, 0] * dq[0]
+            for j in range(1, k):
+                pred = pred + jac[e, j] * dq[j]
+            miss = dr[e] - pred
+            for j in range(k):
+                jac[e, j] = jac[e, j] + miss * ((dq[j] / scale[j]) / scale[j]) / norm
+    _pin(jac, act, k)
+
+
+@numba.njit(cache=True, error_model="numpy")
+def _solve_all_broyden(
+    p0, lo, hi, scale, active, iterations, balls, swing, offset, slots, goal, has, racket,
+    ball, strings, fp, tol, p, solved, iters,
+):  # fmt: skip
+    """The Levenberg-Marquardt solve with Broyden updates of every target, one after the
+    other: the iteration of the numpy solver's method "broyden", with the arguments, outputs
+    and error bits of :func:`_solve_all`.
+
+    A target starts from forward differences at its start; an iteration either takes
+    differences at the current point (where the last step of an updated Jacobian failed or
+    lowered the cost by less than :data:`rallyarc.aim.solver.STALL_RATIO`) or tries one step,
+    one residual, and updates the Jacobian from it (keeping the Jacobian from differences,
+    and ten times the damping, where a step from one fails). The damping falls to 0.3 times
+    after a success and stays after a failed step of an updated Jacobian.
+    """
+    n, k = p0.shape
+    data = (balls, swing, offset, slots, goal, has, racket, ball, strings, fp, tol)
+    lo_hi = (lo, hi)
+    sc = _scratch()
+    work = flight_kernels._scratch()
+    h = 1e-4 * scale
+    res, res_t, step = np.empty(k), np.empty(k), np.empty(k)
+    trial, pert, rp, rhs = np.empty(k), np.empty(k), np.empty(k), np.empty(k)
+    dq, dr = np.empty(k), np.empty(k)
+    jac, mat = np.empty((k, k)), np.empty((k, k))
+    bad = np.zeros(n, dtype=np.int64)
+    for i in range(n):
+        q = p[i]
+        act = active[i]
+        for j in range(k):
+            q[j] = min(max(p0[i, j], lo[j]), hi[j])
+        flags = _evaluate(q, i, k, act, lo_hi, h, data, sc, work, res, jac, pert, rp)
+        cost = _cost(res, k)
+        lam = 1e-2
+        fresh = True  # the Jacobian is from differences at q
+        refresh = False  # take differences at q on the next iteration
+        done = 0
+        while flags == 0 and done < iterations:
+            if not (cost > 1.0 and lam < 1e8):
+                break
+            done += 1
+            if refresh:
+                flags |= _jacobian(q, res, i, k, act, lo_hi, h, data, sc, work, jac, pert, rp)
+                fresh, refresh = True, False
+                continue
+            if not _lm_step(jac, res, lam, scale, act, k, mat, rhs, step):
+                flags |= _E_SINGULAR
+                break
+            for j in range(k):
+                trial[j] = min(max(q[j] + step[j], lo[j]), hi[j])
+            flags |= _residual(
+                trial, i, k, balls, swing, offset, slots, goal, has, racket, ball, strings, fp,
+                tol, sc, work, res_t,
+            )  # fmt: skip
+            cost_t = _cost(res_t, k)
+            better = cost_t < cost
+            failed_fresh = fresh and not better
+            if not failed_fresh:
+                for j in range(k):
+                    dq[j] = trial[j] - q[j]
+                    dr[j] = res_t[j] - res[j]
+                _broyden_update(jac, dq, dr, scale, act, k)
+            stalled = better and cost_t > _STALL * cost and not fresh
+            if better:
+                for j in range(k):
+                    q[j] = trial[j]
+                    res[j] = res_t[j]
+                cost = cost_t
+                lam = lam * 0.3
+            elif failed_fresh:
+                lam = lam * 10.0
+            # a failed or stalled step of an updated Jacobian: differences at q next time; a
+            # failed step of a Jacobian from differences: more damping (it stays the one at q)
+            refresh = (stalled or not better) and not failed_fresh
+            fresh = failed_fresh
+        solved[i] = cost <= 1.0
+        iters[i] = done
+        bad[i] = flags
+    return bad
+
+
+def solve_stroke(system, p0, lo, hi, scale, active=None, iterations=30, method="newton"):
     """Solve the aiming systems of a :class:`rallyarc.aim.stroke._StrokeSystem` (a tilt or
     speed style, no third goal or a net clearance) with the compiled iteration.
 
     ``p0`` (N, k): starts (SI); ``lo``, ``hi``, ``scale`` (k,) bounds and scales (SI);
-    ``active`` (N, k) bool, optional. Returns ``(p, solved, iterations)`` as
+    ``active`` (N, k) bool, optional; ``method`` the Jacobian rule of
+    :func:`rallyarc.aim.solver.solve` ("newton" or "broyden"). Returns
+    ``(p, solved, iterations)`` as
     :func:`rallyarc.aim.solver.solve` does, and the iterations of each target ``(N,)``; or
     None where a target's inputs are refused by the impact or the flight, or its normal
     equations are singular (the numpy solver then raises the error it raises).
     """
+    if method not in METHODS:
+        raise ValueError(f"method must be one of {', '.join(METHODS)}")
     p0 = np.ascontiguousarray(p0, dtype=float)
     n, k = p0.shape
     cond = system.conditions
@@ -490,7 +625,8 @@ def solve_stroke(system, p0, lo, hi, scale, active=None, iterations=30):
     p = np.empty((n, k))
     solved = np.zeros(n, dtype=np.bool_)
     iters = np.zeros(n, dtype=np.int64)
-    bad = _solve_all(
+    kernel = _solve_all if method == "newton" else _solve_all_broyden
+    bad = kernel(
         p0, np.asarray(lo, float), np.asarray(hi, float),
         np.ascontiguousarray(np.broadcast_to(np.asarray(scale, float), (k,))),
         np.ascontiguousarray(active), int(iterations), balls, swing, offset, slots, goal,

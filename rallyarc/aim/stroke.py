@@ -90,11 +90,11 @@ def aim_stroke(
         The impact and the integrator of the residual's first flight
         (:mod:`rallyarc.aim.first`): numpy, or the numba-compiled kernels, for callers that
         solve many batches and can pay for their compile (or cache load) on first use. With
-        "compiled", method "newton" and no receiver height, the whole solve runs compiled
-        (:mod:`rallyarc.aim.compiled`: the numpy solver's iteration with the same residual,
-        one target at a time) where the conditions' racket and aero model have compiled forms;
-        the final metrics and verdicts come from the residual's path as with numpy. The
-        residuals that need the bounce (a receiver height) and the shots played for
+        "compiled" and no receiver height, the whole solve runs compiled
+        (:mod:`rallyarc.aim.compiled`: the numpy solver's iteration, of either method, with the
+        same residual, one target at a time) where the conditions' racket and aero model have
+        compiled forms; the final metrics and verdicts come from the residual's path as with
+        numpy. The residuals that need the bounce (a receiver height) and the shots played for
         ``result`` use numpy.
 
     Returns
@@ -138,8 +138,8 @@ def aim_stroke(
         p0 = np.where(use, guess, p0)
     p0 = np.clip(p0, lo, hi)
     solved = None
-    if engine == "compiled" and method == "newton" and receiver_height is None:
-        solved = _compiled_solve(system, p0, lo, hi, scale, active)
+    if engine == "compiled" and receiver_height is None:
+        solved = _compiled_solve(system, p0, lo, hi, scale, active, method)
     if solved is None:
         solved = solve(system.evaluate, p0, lo, hi, scale, method=method, active=active)
     p, ok, iters = solved
@@ -153,15 +153,15 @@ def aim_stroke(
     return AimResult(settings, ok, reason, result, tx, ty, iters, metrics=m, swing=swing)
 
 
-def _compiled_solve(system, p0, lo, hi, scale, active):
-    """The compiled solve of :mod:`rallyarc.aim.compiled` (numba loads on first use), or None
-    where the conditions have no compiled form or a target's inputs are refused (the numpy
-    solver then solves the batch)."""
+def _compiled_solve(system, p0, lo, hi, scale, active, method="newton"):
+    """The compiled solve of :mod:`rallyarc.aim.compiled` with the solver's ``method`` (numba
+    loads on first use), or None where the conditions have no compiled form or a target's
+    inputs are refused (the numpy solver then solves the batch)."""
     from rallyarc.aim import compiled
 
     if not compiled.supports(system.conditions):
         return None
-    out = compiled.solve_stroke(system, p0, lo, hi, scale, active)
+    out = compiled.solve_stroke(system, p0, lo, hi, scale, active, method=method)
     return None if out is None else out[:3]
 
 
