@@ -1,6 +1,7 @@
 """Rally engine throughput beside the batch engine's, measured in the same run on one core.
 
-The rally rows play the demo pattern pair (``demo_match``) with one process; the batch row plays
+The rally rows play the demo pattern pair (``demo_match``) with one process, 10,000 rallies by
+default (two blocks of rallyarc.rally.BLOCK, as a 10,000-rally run plays them); the batch row plays
 seeded random whole shots (rallyarc.batch.RandomShots) in the demo scenario's conditions with one
 process. A last rally row plays ``--many`` rallies (10,000 by default) over every core, as
 ``rallyarc rally`` does by default. The last line is rally shots/s over batch shots/s, one core.
@@ -9,7 +10,7 @@ Rallies fly the aim solver's first flights with the compiled kernel (rallyarc.fl
 a warm-up of a few rallies before the timed rows loads it (or compiles it, the first time after
 an install), so no row pays for the compile.
 
-Run: python benchmarks/rally.py [--rallies 2000] [--shots 100000] [--many 10000] [--seed 1]
+Run: python benchmarks/rally.py [--rallies 10000] [--shots 100000] [--many 10000] [--seed 1]
 """
 
 from __future__ import annotations
@@ -26,7 +27,7 @@ from rallyarc.rally import load_patterns, play_rallies
 
 def _parse(argv):
     p = argparse.ArgumentParser(description="Rally shots/s beside batch shots/s, one core.")
-    p.add_argument("--rallies", type=int, default=2000, help="rallies to play (default 2000)")
+    p.add_argument("--rallies", type=int, default=10_000, help="rallies, one process (10000)")
     p.add_argument("--shots", type=int, default=100_000, help="batch shots (default 100000)")
     p.add_argument("--many", type=int, default=10_000, help="rallies over every core (0: skip)")
     p.add_argument("--seed", type=int, default=1)
