@@ -32,10 +32,10 @@ OUTPUTS = (
 )
 MAX_RALLIES = 200_000
 #: Rallies a worker plays per second, about (the demo patterns on the two-core machine:
-#: benchmarks/rally.py played 5,000 in 1.9 s in one process, 10,000 in 2.2 s on two, with the
+#: benchmarks/rally.py played 10,000 in 2.6 s in one process and 1.6 s on two, with the
 #: compiled kernels loaded); runs of at least LONG_RUN rallies start with an estimate of their
 #: duration.
-RALLIES_PER_WORKER_S = 2000.0
+RALLIES_PER_WORKER_S = 3500.0
 LONG_RUN = 20_000
 
 
