@@ -157,11 +157,11 @@ def _compiled_solve(system, p0, lo, hi, scale, active, method="newton"):
     """The compiled solve of :mod:`rallyarc.aim.compiled` with the solver's ``method`` (numba
     loads on first use), or None where the conditions have no compiled form or a target's
     inputs are refused (the numpy solver then solves the batch)."""
-    from rallyarc.aim import compiled
+    from rallyarc.aim.compiled import solve_stroke, supports
 
-    if not compiled.supports(system.conditions):
+    if not supports(system.conditions):
         return None
-    out = compiled.solve_stroke(system, p0, lo, hi, scale, active, method=method)
+    out = solve_stroke(system, p0, lo, hi, scale, active, method=method)
     return None if out is None else out[:3]
 
 

@@ -268,10 +268,10 @@ def _compiled_search(result, col, path):
     """The target time, apex time, contact time [s], found flag and unreached reason of every
     ball of ``path`` (columns ``col`` of the flight after the bounce) from the compiled kernel
     (:mod:`rallyarc.rally.meet_compiled`)."""
-    from rallyarc.rally import meet_compiled
+    from rallyarc.rally.meet_compiled import REASONS, search
 
     after = result.after_bounce.flight
-    target, t_apex, t_c, found, code = meet_compiled.search(
+    target, t_apex, t_c, found, code = search(
         after.trajectory,
         col,
         path.t_b,
@@ -285,7 +285,7 @@ def _compiled_search(result, col, path):
         ROOT_ITERATIONS,
         BISECT_ITERATIONS,
     )
-    reason = np.array(meet_compiled.REASONS, dtype=object)[code].astype(str)
+    reason = np.array(REASONS, dtype=object)[code].astype(str)
     return target, t_apex, t_c, found, reason
 
 
