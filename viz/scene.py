@@ -348,4 +348,4 @@ def _tidy_gltf(path, names):
         if len(colour) == 4 and colour[3] < 1.0:
             material["alphaMode"] = "BLEND"
     with open(path, "w", encoding="utf-8") as fh:
-        json.dump(gltf, fh)
+        json.dump(gltf, fh, allow_nan=False)  # strict JSON: glTF has no NaN

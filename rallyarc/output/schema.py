@@ -138,4 +138,4 @@ def schema_for(command, schema=None):
 
 
 if __name__ == "__main__":
-    print(json.dumps(build_schema(), indent=2))
+    print(json.dumps(build_schema(), indent=2, allow_nan=False))
