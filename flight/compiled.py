@@ -40,7 +40,7 @@ import numba
 import numpy as np
 
 from .aero import ConstantAero, CrossLindseyAero, StepanekAero
-from .integrate import _A, _C, _E, EventRecord, FlightResult, Trajectory
+from .integrate import _A, _C, _E, EventRecord, FlightResult, Trajectory, checked_launch
 
 # the tableau as arrays; a zero coefficient is skipped, as the numpy step skips it
 _A_ARR = np.zeros((7, 6))
@@ -669,17 +669,11 @@ def _fly_events(
     return knots
 
 
-def _checked_balls(position, velocity, spin, t_max):
-    x = np.atleast_2d(np.asarray(position, dtype=float))
-    n = x.shape[0]
-    v = np.broadcast_to(np.atleast_2d(np.asarray(velocity, dtype=float)), (n, 3))
-    w = np.broadcast_to(np.atleast_2d(np.asarray(spin, dtype=float)), (n, 3))
-    for name, arr in (("position", x), ("velocity", v), ("spin", w)):
-        if arr.shape != (n, 3) or not np.all(np.isfinite(arr)):
-            raise ValueError(f"{name} must be finite and shaped (N, 3)")
-    if not (np.isfinite(t_max) and t_max > 0):
-        raise ValueError("t_max must be finite and positive")
-    return np.ascontiguousarray(x), np.ascontiguousarray(v), np.ascontiguousarray(w)
+def _checked_balls(position, velocity, spin, t0, t_max):
+    """:func:`flight.integrate.checked_launch`, each array C-contiguous for the kernels."""
+    return tuple(
+        np.ascontiguousarray(a) for a in checked_launch(position, velocity, spin, t0, t_max)
+    )
 
 
 def _refuse_unsupported(params):
@@ -744,11 +738,8 @@ def fly_compiled(
         For input that :func:`flight.integrate.fly` rejects, or two events of one name.
     """
     _refuse_unsupported(params)
-    x, v, w = _checked_balls(position, velocity, spin, t_max)
+    x, v, w, t0 = _checked_balls(position, velocity, spin, t0, t_max)
     n = x.shape[0]
-    t0 = np.ascontiguousarray(np.broadcast_to(np.asarray(t0, dtype=float), (n,)))
-    if not np.all(np.isfinite(t0)):
-        raise ValueError("t0 must be finite and t_max positive")
     events = tuple(events)
     names = tuple(ev.name for ev in events)
     if len(set(names)) != len(names):
@@ -863,24 +854,17 @@ def fly_net_and_ground(position, velocity, spin, params, t_max=10.0, rtol=1e-6, 
             f"no compiled flight for aero model {type(params.aero).__name__}; "
             "use flight.integrate.fly"
         )
-    x = np.atleast_2d(np.asarray(position, dtype=float))
+    x, v, w, _ = _checked_balls(position, velocity, spin, 0.0, t_max)
     n = x.shape[0]
-    v = np.broadcast_to(np.atleast_2d(np.asarray(velocity, dtype=float)), (n, 3))
-    w = np.broadcast_to(np.atleast_2d(np.asarray(spin, dtype=float)), (n, 3))
-    for name, arr in (("position", x), ("velocity", v), ("spin", w)):
-        if arr.shape != (n, 3) or not np.all(np.isfinite(arr)):
-            raise ValueError(f"{name} must be finite and shaped (N, 3)")
-    if not (np.isfinite(t_max) and t_max > 0):
-        raise ValueError("t_max must be finite and positive")
     net = np.full((n, 10), np.nan)
     ground = np.full((n, 10), np.nan)
     end = np.empty((n, 10))
     term = np.full(n, -1, dtype=int)
     steps = np.zeros(n, dtype=int)
     _fly_all(
-        np.ascontiguousarray(x),
-        np.ascontiguousarray(v),
-        np.ascontiguousarray(w),
+        x,
+        v,
+        w,
         _param_vector(params),
         float(t_max),
         float(rtol),

@@ -451,6 +451,23 @@ def _dp_step(rhs, t, x, v, a, h, spin0):
     return xs, vs, ka[6], err_x, err_v
 
 
+def checked_launch(position, velocity, spin, t0, t_max):
+    """The launch of N balls as :func:`fly` takes it: position, velocity and spin ``(N, 3)``
+    [m, m/s, rad/s] (one row is shared by all) and launch times ``(N,)`` [s]; a ValueError for
+    values that are not finite, shapes that are not (N, 3), or ``t_max`` [s] not positive."""
+    x = np.atleast_2d(np.asarray(position, dtype=float))
+    n = x.shape[0]
+    v = np.broadcast_to(np.atleast_2d(np.asarray(velocity, dtype=float)), (n, 3))
+    w = np.broadcast_to(np.atleast_2d(np.asarray(spin, dtype=float)), (n, 3))
+    t0 = np.broadcast_to(np.asarray(t0, dtype=float), (n,))
+    for name, arr in (("position", x), ("velocity", v), ("spin", w)):
+        if arr.shape != (n, 3) or not np.all(np.isfinite(arr)):
+            raise ValueError(f"{name} must be finite and shaped (N, 3)")
+    if not np.all(np.isfinite(t0)) or not (np.isfinite(t_max) and t_max > 0):
+        raise ValueError("t0 must be finite and t_max positive")
+    return x, v, w, t0
+
+
 def fly(
     position,
     velocity,
@@ -488,16 +505,8 @@ def fly(
     -------
     FlightResult
     """
-    x = np.atleast_2d(np.asarray(position, dtype=float))
+    x, v, w, t0 = checked_launch(position, velocity, spin, t0, t_max)
     n = x.shape[0]
-    v = np.broadcast_to(np.atleast_2d(np.asarray(velocity, dtype=float)), (n, 3))
-    w = np.broadcast_to(np.atleast_2d(np.asarray(spin, dtype=float)), (n, 3))
-    t0 = np.broadcast_to(np.asarray(t0, dtype=float), (n,))
-    for name, arr in (("position", x), ("velocity", v), ("spin", w)):
-        if arr.shape != (n, 3) or not np.all(np.isfinite(arr)):
-            raise ValueError(f"{name} must be finite and shaped (N, 3)")
-    if not np.all(np.isfinite(t0)) or not (np.isfinite(t_max) and t_max > 0):
-        raise ValueError("t0 must be finite and t_max positive")
     events = tuple(events)
     offsets = [np.broadcast_to(np.asarray(ev.offset, dtype=float), (n,)) for ev in events]
     if n <= chunk or record:
