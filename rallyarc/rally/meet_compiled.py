@@ -24,6 +24,12 @@ import math
 import numba
 import numpy as np
 
+from rallyarc.flight import integrate
+
+#: The quintic Hermite position of :mod:`rallyarc.flight.integrate` (the one formula that
+#: ``Trajectory.sample_positions`` evaluates), compiled for one coordinate at a time.
+_hermite_position = numba.njit(cache=True)(integrate._hermite_position)
+
 #: Why no point of a ball's path was within reach, by the kernel's reason code.
 REASONS = ("", "out of height range", "too far to run", "past the deepest position")
 
@@ -51,22 +57,12 @@ def _position(knots_t, knots_x, knots_v, knots_a, c, t, out):
     t_a, t_b = knots_t[idx, c], knots_t[idx + 1, c]
     h = t_b - t_a
     s = (tau - t_a) / h if h > 0 else 0.0
-    s2 = s * s
-    s3 = s2 * s
-    s4 = s3 * s
-    s5 = s4 * s
-    h0 = 1 - 10 * s3 + 15 * s4 - 6 * s5
-    h1 = s - 6 * s3 + 8 * s4 - 3 * s5
-    h2 = 0.5 * (s2 - 3 * s3 + 3 * s4 - s5)
-    h3 = 10 * s3 - 15 * s4 + 6 * s5
-    h4 = -4 * s3 + 7 * s4 - 3 * s5
-    h5 = 0.5 * (s3 - 2 * s4 + s5)
     hh = h * h
     for d in range(3):
         x0, x1 = knots_x[idx, c, d], knots_x[idx + 1, c, d]
         hv0, hv1 = h * knots_v[idx, c, d], h * knots_v[idx + 1, c, d]
         ha0, ha1 = hh * knots_a[idx, c, d], hh * knots_a[idx + 1, c, d]
-        out[d] = x0 * h0 + hv0 * h1 + ha0 * h2 + x1 * h3 + hv1 * h4 + ha1 * h5
+        out[d] = _hermite_position(s, x0, hv0, ha0, x1, hv1, ha1)
 
 
 @numba.njit(cache=True)
