@@ -26,9 +26,6 @@ from rallyarc.shot import BallState
 _LEFT_OUT = ("flight_peak_m", "flight_peak_x_m")
 
 
-ENGINES = stages.ENGINES
-
-
 def _flight(start, params, rtol, engine="numpy"):
     """The first flight with the net and the ground only; the events left out are recorded as
     never met, so that the chain's stage functions can read the result."""

@@ -7,7 +7,7 @@ import math
 
 import numpy as np
 
-from rallyarc.aim.first import ENGINES, struck
+from rallyarc.aim.first import struck
 from rallyarc.aim.solver import (
     HEIGHT_TOL_M,
     LAND_TOL_M,
@@ -17,6 +17,7 @@ from rallyarc.aim.solver import (
     solve,
 )
 from rallyarc.shot import BallState, Swing, serve_states, simulate
+from rallyarc.shot.stages import uses_compiled
 
 _SWING_BOUNDS = {
     "face_tilt": (math.radians(-40.0), math.radians(50.0), math.radians(1.0)),
@@ -103,8 +104,7 @@ def aim_stroke(
     """
     if free not in STYLES:
         raise ValueError(f"free must be one of {', '.join(STYLES)}")
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
+    uses_compiled(engine)  # refuses an unknown engine before any work
     if clearance is not None and receiver_height is not None:
         raise ValueError("give a net clearance or a receiver height, not both")
     tx, ty = np.broadcast_arrays(

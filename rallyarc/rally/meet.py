@@ -27,6 +27,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from rallyarc import court
+from rallyarc.shot.stages import uses_compiled
 
 #: A contact this close in time to the bounce's apex is "at the apex" [s].
 APEX_WINDOW_S = 0.02
@@ -44,7 +45,6 @@ ROOT_ITERATIONS = 16
 BISECT_ITERATIONS = 20
 #: Searches for the contact time: ``"numpy"`` all balls at once (the reference),
 #: ``"compiled"`` the same search one ball at a time compiled with numba.
-ENGINES = ("numpy", "compiled")
 
 
 @dataclass
@@ -294,15 +294,14 @@ def meet(result, balls, receiver, start=None, engine="numpy"):
     one chain result ``result`` (recorded), all in the hitter's chain frame; ``start`` (n, 2)
     [m] is where the receiver stands when the hitter strikes (home when not given).
 
-    ``engine`` (one of :data:`ENGINES`) runs the search for the contact time: ``"numpy"`` all
-    balls at once in numpy, ``"compiled"`` one ball at a time in the numba kernel of
-    :mod:`rallyarc.rally.meet_compiled` (loaded on first use), which finds the same times to
-    rounding.
+    ``engine`` (one of :data:`rallyarc.shot.stages.ENGINES`) runs the search for the contact
+    time: ``"numpy"`` all balls at once in numpy, ``"compiled"`` one ball at a time in the
+    numba kernel of :mod:`rallyarc.rally.meet_compiled` (loaded on first use), which finds the
+    same times to rounding.
 
     Returns a :class:`Contact` for those balls.
     """
-    if engine not in ENGINES:
-        raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
+    uses_compiled(engine)  # refuses an unknown engine before any work
     balls = np.asarray(balls, int)
     if balls.size == 0:
         return Contact(

@@ -30,8 +30,9 @@ T_MAX = 12.0
 ENGINES = ("numpy", "compiled")
 
 
-def _compiled(engine):
-    """Whether ``engine`` (one of :data:`ENGINES`) asks for the compiled models."""
+def uses_compiled(engine):
+    """Whether ``engine`` (one of :data:`ENGINES`) asks for the compiled models; a ValueError
+    naming the allowed engines for any other value."""
     if engine not in ENGINES:
         raise ValueError(f"engine must be one of {', '.join(ENGINES)}, got {engine!r}")
     return engine == "compiled"
@@ -45,7 +46,7 @@ def compiled_flight(params, engine):
     numba loads only for the callers that ask for the compiled engine; its first use in a
     process compiles the kernels or loads them from numba's cache.
     """
-    if not _compiled(engine):
+    if not uses_compiled(engine):
         return None
     from rallyarc.flight import compiled
 
@@ -57,7 +58,7 @@ def compiled_impact(racket, engine):
     :class:`rallyarc.impact.racket.Racket`) has a compiled form; None when the impact is
     numpy's (``"numpy"``, or a racket without a compiled form). numba loads as for
     :func:`compiled_flight`."""
-    if not _compiled(engine):
+    if not uses_compiled(engine):
         return None
     from rallyarc.impact import compiled
 
