@@ -53,15 +53,26 @@ from rallyarc.units import RPM
 
 def _toss(state, a, entries, entry_of):
     """Each serve's ball at contact: its toss, mirrored across the centre mark on the ad side."""
-    for j in np.flatnonzero(state.kind[a] != ""):
-        toss = entries[entry_of[j]].stroke.toss
-        c = np.array(toss.contact, float)
-        c[1] = abs(c[1]) if state.side[a[j]] == "ad" else -abs(c[1])
-        state.position[a[j]] = c
-        state.velocity[a[j]] = toss.velocity()
-        state.spin[a[j]] = [0.0, toss.spin_rpm * RPM, 0.0]
-        state.body[a[j]] = c[:2]
-        state.stretch[a[j]] = 0.0
+    j = np.flatnonzero(state.kind[a] != "")
+    if not j.size:
+        return
+    # the tosses of the entries (K), then of each serve by its entry
+    tosses = [e.stroke.toss for e in entries]
+    used = np.unique(entry_of[j])
+    contact = np.zeros((len(entries), 3))
+    velocity = np.zeros((len(entries), 3))
+    spin = np.zeros(len(entries))
+    for e in used:
+        contact[e], velocity[e] = tosses[e].contact, tosses[e].velocity()
+        spin[e] = tosses[e].spin_rpm * RPM
+    k, rows = entry_of[j], a[j]
+    c = contact[k]
+    c[:, 1] = np.where(state.side[rows] == "ad", np.abs(c[:, 1]), -np.abs(c[:, 1]))
+    state.position[rows] = c
+    state.velocity[rows] = velocity[k]
+    state.spin[rows] = np.column_stack([np.zeros(j.size), spin[k], np.zeros(j.size)])
+    state.body[rows] = c[:, :2]
+    state.stretch[rows] = 0.0
 
 
 def to_other_end_xy(points):
