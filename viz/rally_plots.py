@@ -252,7 +252,9 @@ def whatif_differences(comparison):
                 continue
             y = j + (i - (len(others) - 1) / 2) * step
             mid = d["difference"] * 100
-            err = [[mid - d["low"] * 100], [d["high"] * 100 - mid]]
+            # No interval (None) when too few rallies finished in both variants to give one.
+            bounded = d["low"] is not None and d["high"] is not None
+            err = [[mid - d["low"] * 100], [d["high"] * 100 - mid]] if bounded else None
             ax.errorbar(
                 mid,
                 y,
@@ -264,7 +266,9 @@ def whatif_differences(comparison):
             )
             label = None
             ax.annotate(
-                f"{mid:+.1f} ({d['low'] * 100:+.1f} to {d['high'] * 100:+.1f})",
+                f"{mid:+.1f} ({d['low'] * 100:+.1f} to {d['high'] * 100:+.1f})"
+                if bounded
+                else f"{mid:+.1f} (no interval)",
                 (mid, y),
                 textcoords="offset points",
                 xytext=(0, 6),

@@ -109,3 +109,15 @@ def test_whatif_figure_labels_each_difference_with_its_interval():
     }
     fig = rally_plots.whatif_differences(comparison)
     assert "+2.0 (-1.0 to +5.0)" in _texts(fig)
+
+
+def test_whatif_figure_draws_a_difference_without_interval():
+    # One finished rally gives a difference but no interval (its bounds are written as None).
+    d = {"difference": 1.0, "low": None, "high": None}
+    comparison = {
+        "base": "plan a",
+        "rallies": 1,
+        "variants": [{"label": "plan a"}, {"label": "plan b", "difference_from_base": {"x": d}}],
+    }
+    fig = rally_plots.whatif_differences(comparison)
+    assert "+100.0 (no interval)" in _texts(fig)
