@@ -48,13 +48,39 @@ FRICTION_ONLY = click.option(
 )
 
 
-def _played_conditions(sc, friction_only):
-    """The scenario's conditions, in friction-only mode when asked."""
+DEFORMING_BALL = click.option(
+    "--deforming-ball",
+    is_flag=True,
+    help="Bounce a compressing ball: the court's friction acts at the flattened contact, below "
+    "the centre, so a sliding ball picks up less spin (default: a rigid ball).",
+)
+
+
+def _played_conditions(sc, friction_only, deforming_ball=False):
+    """The scenario's conditions, in friction-only mode and with a compressing ball's bounce
+    when asked."""
     import dataclasses
 
-    if not friction_only:
+    if not (friction_only or deforming_ball):
         return sc.conditions
-    return dataclasses.replace(sc.conditions, friction_only=True)
+    return dataclasses.replace(
+        sc.conditions,
+        friction_only=friction_only or sc.conditions.friction_only,
+        deforming_ball=deforming_ball or sc.conditions.deforming_ball,
+    )
+
+
+def _modes(conditions):
+    """The non-default physics modes of played conditions, for a table's title ("" if none)."""
+    modes = [
+        text
+        for on, text in (
+            (conditions.friction_only, "friction alone at the racket"),
+            (conditions.deforming_ball, "deforming ball at the bounce"),
+        )
+        if on
+    ]
+    return "; " + "; ".join(modes) if modes else ""
 
 
 @click.command()
@@ -73,6 +99,7 @@ def _played_conditions(sc, friction_only):
 @click.option("--incoming-spin", default=None, help="Override: incoming topspin [rpm].")
 @condition_options
 @FRICTION_ONLY
+@DEFORMING_BALL
 @json_option()
 @click.option(
     "--csv", "csv_path", default=None, help="Write the trajectory table to this CSV file."
@@ -81,7 +108,7 @@ def _played_conditions(sc, friction_only):
 @force_option("Overwrite existing output files.")
 def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, contact,
          incoming_speed, incoming_spin, ball, racket, air, surface_name, receiver_plane,
-         friction_only, as_json, csv_path, dt, force):  # fmt: skip
+         friction_only, deforming_ball, as_json, csv_path, dt, force):  # fmt: skip
     """One stroke against the scenario's incoming ball (or a serve against its toss):
     impact, net, landing, bounce and the ball at the receiver."""
     from rallyarc import domain
@@ -101,12 +128,12 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
         check_ball_point(st.toss.contact, "--contact" if contact else f"--stroke {stroke}", r)
     elif contact is not None:
         check_ball_point(incoming.position[0], "--contact", r)
-    result = play([st], _played_conditions(sc, friction_only), incoming)
+    c = _played_conditions(sc, friction_only, deforming_ball)
+    result = play([st], c, incoming)
     if csv_path is not None:
         export.write_frame(csv_path, result.trajectory_frame(step))
-    c = sc.conditions
     lines = comparison_table(
-        result, title=f"{st.label} ({c.surface_name}, {c.ball.name}, {c.air.name})"
+        result, title=f"{st.label} ({c.surface_name}, {c.ball.name}, {c.air.name}{_modes(c)})"
     )
     if csv_path is not None:
         lines.append(f"trajectory written to {csv_path}")
@@ -160,14 +187,15 @@ def _incoming(sc, st, contact, incoming_speed, incoming_spin):
 @click.argument("scenario", default="demo")
 @condition_options
 @FRICTION_ONLY
+@DEFORMING_BALL
 @click.option(
     "--out", "out_dir", default=None, help="Write the table, trajectories and figures here."
 )
 @dt_option
 @force_option("Overwrite existing files in --out.")
 @json_option("Print the shots as a JSON list.")
-def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_only, out_dir, dt,
-            force, as_json):  # fmt: skip
+def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_only,
+            deforming_ball, out_dir, dt, force, as_json):  # fmt: skip
     """Every stroke variant of a scenario side by side (default: the demo scenario)."""
     from rallyarc.output.tables import comparison_table
     from rallyarc.shot import play
@@ -175,13 +203,13 @@ def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_
     sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, "SCENARIO")
     step = time_step(dt)
     folder = output_folder(out_dir, COMPARE_OUTPUTS, force)
-    result = play(sc.strokes, _played_conditions(sc, friction_only), incoming_ball(sc))
+    c = _played_conditions(sc, friction_only, deforming_ball)
+    result = play(sc.strokes, c, incoming_ball(sc))
     records = [result.record(i) for i in range(len(result))]
-    c = sc.conditions
     title = (
         f"{sc.name}: {sc.player}, {sc.club}\n{sc.description}\n"
         f"ball {c.ball.name}, racket {c.racket.name}, air {c.air.name} "
-        f"({c.air.density:.3f} kg/m^3), surface {c.surface_name}"
+        f"({c.air.density:.3f} kg/m^3), surface {c.surface_name}{_modes(c)}"
     )
     lines = comparison_table(result, title=title)
     if folder is not None:

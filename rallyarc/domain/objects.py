@@ -135,6 +135,11 @@ class Conditions:
     #: Friction alone at the racket: the strings give no spring-back (tangential restitution
     #: 0), so the outgoing spin is what friction makes by itself.
     friction_only: bool = False
+    #: The court bounce of a compressing ball (:func:`rallyarc.bounce.deform.bounce_deforming`):
+    #: the court's friction acts at the flattened contact, below the centre, so a sliding ball
+    #: picks up less spin. Off by default (a rigid ball, :func:`rallyarc.bounce.contact.bounce`):
+    #: no measurement confirmed for this project sets the size of the effect.
+    deforming_ball: bool = False
 
     def flight_params(self):
         """Flight parameters of this ball in this air, with the spin decay of

@@ -233,6 +233,8 @@ class ShotResult:
                 "surface": c.surface_name,
                 "receiver_plane_m": c.receiver_plane_m,
                 "singles": c.singles,
+                "friction_only": c.friction_only,
+                "bounce_model": "deforming ball" if c.deforming_ball else "rigid ball",
             }
         )
         return inputs

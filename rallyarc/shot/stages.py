@@ -14,6 +14,7 @@ import numpy as np
 
 from rallyarc import court
 from rallyarc.bounce.contact import bounce as bounce_contact
+from rallyarc.bounce.deform import bounce_deforming
 from rallyarc.flight.integrate import PlaneEvent, apex, fly, ground_contact, net_plane
 from rallyarc.impact.contact import hit
 from rallyarc.impact.geometry import face_orientation, swing_velocity
@@ -270,11 +271,16 @@ def _heading_change(v_in, v_out):
 
 def bounce(first, idx, conditions, m):
     """The bounce of the balls ``idx`` (those past the net) on the court, under the same
-    slide-or-grip rule as the racket; fills their bounce metrics in ``m``. Returns the balls'
-    velocity and spin leaving the court ``(K, 3)``."""
+    slide-or-grip rule as the racket (a compressing ball when ``conditions.deforming_ball``);
+    fills their bounce metrics in ``m``. Returns the balls' velocity and spin leaving the court
+    ``(K, 3)``."""
     ball = conditions.ball
     vin, win = first.velocity[idx], first.spin[idx]
-    res = bounce_contact(vin, win, ball.radius, ball.alpha, conditions.surface_for_ball())
+    surface = conditions.surface_for_ball()
+    if conditions.deforming_ball:
+        res = bounce_deforming(vin, win, ball.radius, ball.alpha, surface, ball.mass)
+    else:
+        res = bounce_contact(vin, win, ball.radius, ball.alpha, surface)
     top_in, side_in = topspin_sidespin(vin, win)
     top_out, side_out = topspin_sidespin(vin, res.spin)
     angle_in = _angle_below(vin)

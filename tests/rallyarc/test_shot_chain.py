@@ -391,3 +391,30 @@ def test_cli_friction_only_option_on_shot_and_compare():
     assert spins[0] > spins[1] + 100.0
     out = runner.invoke(main, ["compare", "serve_demo", "--friction-only", "--json"])
     assert out.exit_code == 0, out.output
+
+
+def test_deforming_ball_mode_bounces_through_the_compressing_ball_model():
+    # With conditions.deforming_ball the court friction acts at the flattened contact, a lever
+    # arm q r below the centre instead of r. A ball that slides through the bounce keeps the
+    # rigid ball's rebound (normal restitution and the friction impulse mu J_n are unchanged) and
+    # gains q times the rigid ball's spin. q is computed here from the ITF ball deformation test
+    # (ITF Rules of Tennis, Appendix I: 8.165 kg load, 0.65 cm mid-range forward deformation) as
+    # a linear spring compressed by v_n sqrt(m / k), mean lever r - (pi / 4) d.
+    sc = domain.load_scenario("serve_demo")
+    names = [s.name for s in sc.strokes]
+    rigid = play(sc.strokes, sc.conditions, None, record=False).metrics
+    soft_conditions = dataclasses.replace(sc.conditions, deforming_ball=True)
+    soft = play(sc.strokes, soft_conditions, None, record=False).metrics
+    i = names.index("flat_serve")
+    assert rigid["bounce_regime"][i] == "slide" and soft["bounce_regime"][i] == "slide"
+    for key in ("bounce_speed_in_mps", "bounce_speed_out_mps", "bounce_angle_out_deg"):
+        assert soft[key][i] == pytest.approx(rigid[key][i], rel=1e-9), key
+    ball = sc.conditions.ball
+    v_n = rigid["bounce_speed_in_mps"][i] * math.sin(math.radians(rigid["bounce_angle_in_deg"][i]))
+    k = 8.165 * 9.80665 / 0.0065
+    q = 1.0 - 0.25 * math.pi * v_n * math.sqrt(ball.mass / k) / ball.radius
+    gain_rigid = rigid["bounce_spin_out_rpm"][i] - rigid["bounce_spin_in_rpm"][i]
+    gain_soft = soft["bounce_spin_out_rpm"][i] - soft["bounce_spin_in_rpm"][i]
+    assert gain_rigid > 1000.0
+    assert gain_soft == pytest.approx(q * gain_rigid, rel=1e-6)
+    assert 0.3 < q < 0.9
