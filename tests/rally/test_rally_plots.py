@@ -100,24 +100,19 @@ def test_landing_cells_and_lines_give_one_singles_sideline(run_and_summary):
         assert centres == [round(-sw, 3), round(sw, 3)]
 
 
-def test_whatif_figure_labels_each_difference_with_its_interval():
-    d = {"difference": 0.02, "low": -0.01, "high": 0.05}
+@pytest.mark.parametrize(
+    ("d", "label"),
+    [
+        ({"difference": 0.02, "low": -0.01, "high": 0.05}, "+2.0 (-1.0 to +5.0)"),
+        # one finished rally: a difference but no interval (its bounds are written as None)
+        ({"difference": 1.0, "low": None, "high": None}, "+100.0 (no interval)"),
+    ],
+)
+def test_whatif_figure_labels_each_difference_with_its_interval(d, label):
     comparison = {
         "base": "plan a",
         "rallies": 100,
         "variants": [{"label": "plan a"}, {"label": "plan b", "difference_from_base": {"x": d}}],
     }
     fig = rally_plots.whatif_differences(comparison)
-    assert "+2.0 (-1.0 to +5.0)" in _texts(fig)
-
-
-def test_whatif_figure_draws_a_difference_without_interval():
-    # One finished rally gives a difference but no interval (its bounds are written as None).
-    d = {"difference": 1.0, "low": None, "high": None}
-    comparison = {
-        "base": "plan a",
-        "rallies": 1,
-        "variants": [{"label": "plan a"}, {"label": "plan b", "difference_from_base": {"x": d}}],
-    }
-    fig = rally_plots.whatif_differences(comparison)
-    assert "+100.0 (no interval)" in _texts(fig)
+    assert label in _texts(fig)
