@@ -21,7 +21,6 @@ import numpy as np
 from scipy.integrate import solve_ivp
 
 from rallyarc import court
-from rallyarc.bounce.contact import bounce
 from rallyarc.flight.forces import acceleration
 from rallyarc.impact.contact import hit
 from rallyarc.impact.geometry import face_orientation, swing_velocity
@@ -213,7 +212,7 @@ def play_shot(position, velocity, spin, swing, conditions, serve=False, **solver
 
     # the bounce and the free flight to the second bounce
     w_land = w0 * np.exp(-params.spin_decay_rate * t_land)
-    res = bounce(y_land[3:][None], w_land[None], r, ball.alpha, conditions.surface_for_ball())
+    res = conditions.bounce(y_land[3:][None], w_land[None])
     events = [receiver, top, ground]
     second = _fly_one(
         y_land[:3], res.velocity[0], res.spin[0], t_land, params, events, **_solver(opts)

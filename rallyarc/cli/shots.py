@@ -64,9 +64,7 @@ def _played_conditions(sc, friction_only, deforming_ball=False):
     if not (friction_only or deforming_ball):
         return sc.conditions
     return dataclasses.replace(
-        sc.conditions,
-        friction_only=friction_only or sc.conditions.friction_only,
-        deforming_ball=deforming_ball or sc.conditions.deforming_ball,
+        sc.conditions, friction_only=friction_only, deforming_ball=deforming_ball
     )
 
 

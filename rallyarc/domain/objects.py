@@ -10,7 +10,8 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 
 from rallyarc import config
-from rallyarc.bounce.contact import Surface
+from rallyarc.bounce.contact import Surface, bounce
+from rallyarc.bounce.deform import bounce_deforming
 from rallyarc.flight.aero import get_aero_model
 from rallyarc.flight.forces import FlightParams, spin_decay_rate
 from rallyarc.impact.racket import Racket
@@ -177,6 +178,16 @@ class Conditions:
         """Tangential restitution of the strings as played: the racket's, or 0 when
         :attr:`friction_only`."""
         return 0.0 if self.friction_only else self.racket.string_tangential_restitution
+
+    def bounce(self, velocity, spin):
+        """The court bounce of N balls arriving with ``velocity`` and ``spin`` ``(N, 3)``, on the
+        surface as this ball meets it: a rigid ball's (:func:`rallyarc.bounce.contact.bounce`),
+        or a compressing ball's when :attr:`deforming_ball`
+        (:func:`rallyarc.bounce.deform.bounce_deforming`)."""
+        ball, surface = self.ball, self.ball_surface
+        if self.deforming_ball:
+            return bounce_deforming(velocity, spin, ball.radius, ball.alpha, surface, ball.mass)
+        return bounce(velocity, spin, ball.radius, ball.alpha, surface)
 
     def string_contact(self, ball_velocity, face_velocity, face_normal):
         """The string bed's contact coefficients for N impacts: normal restitution at each

@@ -13,8 +13,6 @@ from dataclasses import dataclass
 import numpy as np
 
 from rallyarc import court
-from rallyarc.bounce.contact import bounce as bounce_contact
-from rallyarc.bounce.deform import bounce_deforming
 from rallyarc.flight.integrate import PlaneEvent, apex, fly, ground_contact, net_plane
 from rallyarc.impact.contact import hit
 from rallyarc.impact.geometry import face_orientation, swing_velocity
@@ -274,13 +272,8 @@ def bounce(first, idx, conditions, m):
     slide-or-grip rule as the racket (a compressing ball when ``conditions.deforming_ball``);
     fills their bounce metrics in ``m``. Returns the balls' velocity and spin leaving the court
     ``(K, 3)``."""
-    ball = conditions.ball
     vin, win = first.velocity[idx], first.spin[idx]
-    surface = conditions.surface_for_ball()
-    if conditions.deforming_ball:
-        res = bounce_deforming(vin, win, ball.radius, ball.alpha, surface, ball.mass)
-    else:
-        res = bounce_contact(vin, win, ball.radius, ball.alpha, surface)
+    res = conditions.bounce(vin, win)
     top_in, side_in = topspin_sidespin(vin, win)
     top_out, side_out = topspin_sidespin(vin, res.spin)
     angle_in = _angle_below(vin)

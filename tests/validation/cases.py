@@ -17,6 +17,7 @@ from rallyarc import domain
 from rallyarc.bounce.pace import court_pace_rating
 from rallyarc.impact.contact import collide, hit
 from rallyarc.impact.racket import apparent_cor, effective_mass
+from rallyarc.units import MPH, RPM
 
 
 @dataclass(frozen=True)
@@ -60,7 +61,7 @@ def _strings(theta_deg, racket, speed=23.0, backspin_rpm=0.0):
     v = np.array([speed * math.cos(th), 0.0, -speed * math.sin(th)])
     # The ball travels toward +x onto the plane z = 0: spin about +y rolls it forward along
     # the strings, so backspin is about -y.
-    w = np.array([0.0, -backspin_rpm * 2.0 * math.pi / 60.0, 0.0])
+    w = np.array([0.0, -backspin_rpm * RPM, 0.0])
     args = (ball.mass, ball.radius, ball.alpha)
     coeffs = (setup.string_restitution, setup.string_friction, setup.string_tangential_restitution)
     if racket:
@@ -83,8 +84,8 @@ _CLAMPED_SPIN = (
 
 def _clamped_spin():
     """Topspin [rpm] off the head-clamped strings for the measured incoming ball."""
-    out = _strings(50.0, False, speed=56.0 * 0.44704, backspin_rpm=3820.0)
-    return out.spin[0, 1] * 60.0 / (2.0 * math.pi)
+    out = _strings(50.0, False, speed=56.0 * MPH, backspin_rpm=3820.0)
+    return out.spin[0, 1] / RPM
 
 
 def _grip_angle(racket):
