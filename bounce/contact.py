@@ -177,8 +177,12 @@ class BounceResult:
     spin : numpy.ndarray, shape (..., 3)
         Spin after the bounce [rad/s].
     grip : numpy.ndarray of bool, shape (...)
-        True where the ball grips (friction can stop, or spring back, the contact point) and False
-        where it slides throughout or did not bounce.
+        True where the ball grips: friction stops the contact point and returns the full
+        spring-back ``e_t``. False where it slides throughout, where it stops and then slips back
+        before the spring-back is complete (see ``stopped``), or where it did not bounce.
+    stopped : numpy.ndarray of bool, shape (...)
+        True where the friction impulse was large enough to bring the contact point to rest:
+        the slide ended. With ``e_t = 0`` this is exactly ``grip``.
     normal_impulse : numpy.ndarray, shape (...)
         Normal impulse per unit mass ``J_n`` [m/s] (along +z).
     tangential_impulse : numpy.ndarray, shape (...)
@@ -204,6 +208,7 @@ class BounceResult:
     velocity: NDArray[np.float64]
     spin: NDArray[np.float64]
     grip: NDArray[np.bool_]
+    stopped: NDArray[np.bool_]
     normal_impulse: NDArray[np.float64]
     tangential_impulse: NDArray[np.float64]
     slip_in: NDArray[np.float64]
@@ -212,6 +217,18 @@ class BounceResult:
     friction_limit: NDArray[np.float64]
     restitution: NDArray[np.float64]
     approaching: NDArray[np.bool_]
+
+    @property
+    def regime(self) -> NDArray[np.str_]:
+        """The bounce in words, shape ``(...)``: ``"slide"`` (the contact point slid
+        throughout), ``"grip"`` (it stopped and the full spring-back was returned),
+        ``"grip-slip"`` (it stopped, then slipped back before the spring-back was complete)
+        or ``"none"`` (no bounce)."""
+        return np.where(
+            self.grip,
+            "grip",
+            np.where(self.stopped, "grip-slip", np.where(self.approaching, "slide", "none")),
+        )
 
 
 def _vectors(value: ArrayLike, name: str, unit: str) -> NDArray[np.float64]:
@@ -327,8 +344,9 @@ def bounce(
     - The bounce never adds kinetic energy for any :math:`\mu \ge 0` and
       :math:`e, e_t \in [0, 1]`.
     - With :math:`e_t > 0` and :math:`\alpha|\mathbf u|/(1+\alpha) \le \mu J_n < J_\mathrm{grip}`
-      the rule still counts the ball as sliding with :math:`J = \mu J_n`; the contact point then
-      leaves moving backwards more slowly than :math:`e_t|\mathbf u|`.
+      the contact point stops and then slips back (``"grip-slip"``, ``stopped`` but not
+      ``grip``): :math:`J = \mu J_n`, and the contact point leaves moving backwards more slowly
+      than :math:`e_t|\mathbf u|`.
     - Balls with :math:`v_z \ge 0` are not moving into the court: they are returned unchanged,
       with zero impulses, ``grip`` False and ``approaching`` False.
 
@@ -373,6 +391,9 @@ def bounce(
     friction_limit = surface.friction * normal_impulse
     slides = friction_limit < grip_impulse
     grip = approaching & ~slides
+    stopped = approaching & (
+        friction_limit * (1.0 + surface.tangential_restitution) >= grip_impulse
+    )
     impulse = np.where(approaching, np.where(slides, friction_limit, grip_impulse), 0.0)
 
     ux, uy = direction[..., 0], direction[..., 1]
@@ -393,6 +414,7 @@ def bounce(
         velocity=velocity_out,
         spin=spin_out,
         grip=np.asarray(grip),
+        stopped=np.asarray(stopped),
         normal_impulse=np.asarray(normal_impulse),
         tangential_impulse=np.asarray(impulse),
         slip_in=slip_in,

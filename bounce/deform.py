@@ -204,6 +204,9 @@ def bounce_deforming(
         velocity=velocity_out,
         spin=spin_out,
         grip=np.asarray(approaching & ~slides),
+        stopped=np.asarray(
+            approaching & (friction_limit * (1.0 + surface.tangential_restitution) >= grip_impulse)
+        ),
         normal_impulse=np.asarray(normal_impulse),
         tangential_impulse=np.asarray(impulse),
         slip_in=slip_in,

@@ -60,7 +60,7 @@ _V_VELOCITY, _V_SPIN, _V_TANGENTIAL, _V_FACE, _V_PARALLEL, _V_SPIN_CHANGE = rang
 _S_JN, _S_APPROACH, _S_PARALLEL, _S_SLIP_LINEAR, _S_SLIP_SPIN, _S_SLIP_RATIO, _S_RATIO_OUT = range(
     7
 )
-_B_APPROACHING, _B_GRIP, _B_LIMIT = range(3)
+_B_APPROACHING, _B_GRIP, _B_STOPPED = range(3)
 
 # bits of a kernel's input check, in the order numpy checks them; the message of each
 _ERRORS = (
@@ -292,7 +292,7 @@ def _collide_ball(
     num[_S_RATIO_OUT, i] = spin_ratio_out
     flag[_B_APPROACHING, i] = approaching
     flag[_B_GRIP, i] = grip
-    flag[_B_LIMIT, i] = approaching and math.hypot(jt_a, jt_c) >= stop_mag
+    flag[_B_STOPPED, i] = approaching and math.hypot(jt_a, jt_c) >= stop_mag
 
 
 @numba.njit(cache=True, error_model="numpy")
@@ -535,7 +535,7 @@ def _result(vec, num, flag, bad, length=None):
         slip_spin_mps=num[_S_SLIP_SPIN],
         slip_ratio=num[_S_SLIP_RATIO],
         spin_change=vec[_V_SPIN_CHANGE],
-        spin_limit_reached=flag[_B_LIMIT],
+        stopped=flag[_B_STOPPED],
         spin_ratio_out=num[_S_RATIO_OUT],
     )
 

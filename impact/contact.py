@@ -39,8 +39,11 @@ class ContactResult:
         ``(N,)`` bool. False where the ball was not moving into the face (``v_n >= 0``); those
         balls are returned unchanged with zero impulses.
     grip : numpy.ndarray
-        ``(N,)`` bool. True where friction was enough to stop the slip (grip), False where the
-        ball slid throughout (or did not touch). See :attr:`regime` for words.
+        ``(N,)`` bool. True where friction held the contact point through the whole exchange:
+        it stopped the slip and returned the strings' full spring-back (with ``e_t = 0``: it
+        stopped the slip). False where the ball slid throughout, where it stopped and then
+        slipped back before the spring-back was complete (see ``stopped``), or where it did
+        not touch. See :attr:`regime` for words.
     normal_impulse : numpy.ndarray
         Normal impulse on the ball along ``+n``, ``(N,)`` [N s].
     tangential_impulse : numpy.ndarray
@@ -70,11 +73,12 @@ class ContactResult:
         is zero.
     spin_change : numpy.ndarray
         ``w' - w``, ``(N, 3)`` [rad/s].
-    spin_limit_reached : numpy.ndarray
+    stopped : numpy.ndarray
         ``(N,)`` bool. True where the friction impulse was large enough to bring the contact
-        point to rest relative to the face, i.e. the spin caught up with the remaining parallel
-        speed. With ``e_t = 0`` this is exactly the grip regime and the ball leaves with the
-        contact point at rest; with ``e_t > 0`` the contact point springs back past rest.
+        point to rest relative to the face: the slide ended. With ``e_t = 0`` this is exactly
+        the grip regime. With ``e_t > 0`` the strings then spring back; where friction runs out
+        before the full spring-back is returned, the contact point slips back (``stopped`` but
+        not ``grip``: the ``"grip-slip"`` regime).
     spin_ratio_out : numpy.ndarray
         ``r |w'_t| / |remaining parallel speed|``, ``(N,)`` [-], where ``w'_t`` is the outgoing
         spin's component in the face plane and the remaining parallel speed is the in-plane
@@ -96,13 +100,28 @@ class ContactResult:
     slip_spin_mps: np.ndarray
     slip_ratio: np.ndarray
     spin_change: np.ndarray
-    spin_limit_reached: np.ndarray
+    stopped: np.ndarray
     spin_ratio_out: np.ndarray
 
     @property
+    def spin_limit_reached(self) -> np.ndarray:
+        """``(N,)`` bool: more friction could give the ball no more spin. That is the grip
+        regime: the contact point stopped and the full spring-back was returned. Where the
+        ball slid throughout, or stopped and then slipped back, the whole friction impulse
+        ``mu J_n`` was used, and more friction would have given more spin."""
+        return self.grip
+
+    @property
     def regime(self) -> np.ndarray:
-        """Contact regime in words, ``(N,)`` str: ``"grip"``, ``"slide"`` or ``"none"``."""
-        return np.where(self.grip, "grip", np.where(self.approaching, "slide", "none"))
+        """Contact regime in words, ``(N,)`` str: ``"slide"`` (the contact point slid
+        throughout), ``"grip"`` (it stopped and the full spring-back was returned),
+        ``"grip-slip"`` (it stopped, then slipped back before the spring-back was complete)
+        or ``"none"`` (no contact)."""
+        return np.where(
+            self.grip,
+            "grip",
+            np.where(self.stopped, "grip-slip", np.where(self.approaching, "slide", "none")),
+        )
 
 
 def collide(
@@ -297,7 +316,7 @@ def collide(
             out=np.full(n_balls, np.nan),
             where=remaining_mag > 0.0,
         )
-    spin_limit_reached = approaching & (np.hypot(jt_a, jt_c) >= stop_mag)
+    stopped = approaching & (np.hypot(jt_a, jt_c) >= stop_mag)
 
     return ContactResult(
         velocity=v_out,
@@ -314,7 +333,7 @@ def collide(
         slip_spin_mps=_norm(spin_slip),
         slip_ratio=slip_ratio,
         spin_change=w_out - w,
-        spin_limit_reached=spin_limit_reached,
+        stopped=stopped,
         spin_ratio_out=spin_ratio_out,
     )
 

@@ -138,7 +138,7 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_jso
             "spin_out_rpm": spin_out / units.RPM,
             "vx_out_mps": vx,
             "vz_out_mps": vz,
-            "regime": "grip" if bool(res.grip[0]) else "slide",
+            "regime": str(res.regime[0]),
         },
     }
     out = data["bounce"]

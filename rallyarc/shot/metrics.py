@@ -144,7 +144,8 @@ _ALL = (
         "regime",
         "text",
         "contact",
-        "grip: the contact point stopped on the strings; slide: it slid throughout",
+        "slide: the contact point slid throughout; grip: it stopped on the strings and sprang "
+        "back in full; grip-slip: it stopped, then slipped back before the spring-back was done",
     ),
     _m(
         "impact",
@@ -166,7 +167,7 @@ _ALL = (
         "spin_limit_reached",
         "yes/no",
         "spin limit reached",
-        "outgoing contact point at rest: friction could give no more spin",
+        "grip: more friction could give no more spin (slide and grip-slip used all of it)",
     ),
     _m(
         "impact",
@@ -392,7 +393,8 @@ _ALL = (
         "regime",
         "text",
         "grip or slide",
-        "grip: the contact point stopped during the bounce; slide: it slid throughout",
+        "slide: the contact point slid throughout; grip: it stopped and sprang back in full; "
+        "grip-slip: it stopped, then slipped back",
     ),
     # the receiver
     _m(

@@ -256,7 +256,7 @@ def no_bounce(n, bounced):
     m = {f"bounce_{key}": _nan(n) for key in _BOUNCE_NUMBERS}
     m["bounce_occurred"] = bounced
     m["bounce_apex_beyond_receiver"] = np.zeros(n, bool)
-    m["bounce_regime"] = np.full(n, "", dtype="<U5")
+    m["bounce_regime"] = np.full(n, "", dtype="<U9")
     return m
 
 
@@ -294,7 +294,7 @@ def bounce(first, idx, conditions, m):
     }
     for key, value in values.items():
         m[f"bounce_{key}"][idx] = value
-    m["bounce_regime"][idx] = np.where(res.grip, "grip", "slide")
+    m["bounce_regime"][idx] = res.regime
     return res.velocity, res.spin
 
 

@@ -135,6 +135,32 @@ def test_grip_with_tangential_restitution_reverses_slip_by_e_t():
     np.testing.assert_allclose(result.grip_impulse, expected, rtol=1e-14)
 
 
+def test_grip_slip_stops_the_contact_point_then_slips_back_with_all_the_friction():
+    # Between the stop impulse alpha |u| / (1 + alpha) and the grip impulse alpha (1 + e_t) |u| /
+    # (1 + alpha) the contact point stops, then slips back: all of mu J_n is used and the slip
+    # reverses by less than e_t (Cross 2002, Am. J. Phys. 70:1093, doi:10.1119/1.1507792:
+    # grip-slip).
+    rng = np.random.default_rng(12)
+    velocity, spin = _random_balls(rng, 20_000)
+    surface = Surface(friction=0.5, restitution=0.8, tangential_restitution=0.6)
+    result = bounce(velocity, spin, R, ALPHA, surface)
+    mid = result.stopped & ~result.grip
+    assert mid.sum() > 500
+    assert set(result.regime[mid]) == {"grip-slip"}
+    assert set(result.regime[result.grip]) == {"grip"}
+    assert set(result.regime[~result.stopped & result.approaching]) == {"slide"}
+    np.testing.assert_allclose(
+        result.tangential_impulse[mid], result.friction_limit[mid], rtol=1e-15
+    )
+    u_in, u_out = result.slip_in[mid], result.slip_out[mid]
+    back = -np.sum(u_in * u_out, axis=-1) / np.sum(u_in**2, axis=-1)
+    assert np.all(back >= -1e-12) and np.all(back < 0.6)
+    stop = ALPHA * np.linalg.norm(result.slip_in, axis=-1) / (1.0 + ALPHA)
+    np.testing.assert_array_equal(
+        result.stopped, result.approaching & (result.friction_limit >= stop * (1 - 1e-15))
+    )
+
+
 def test_grip_decision_uses_friction_limit_versus_grip_impulse():
     rng = np.random.default_rng(3)
     velocity, spin = _random_balls(rng, 5000)

@@ -223,6 +223,29 @@ def test_grip_with_tangential_restitution_reverses_slip():
     np.testing.assert_allclose(_contact_point_slip(kw, res), -e_t[:, None] * u_in, atol=1e-9)
 
 
+def test_grip_slip_stops_the_slip_then_springs_back_part_way():
+    # Where mu J_n lies between the stopping impulse and (1 + e_t) times it, the contact point
+    # stops and then slips back (grip-slip, Cross 2002, doi:10.1119/1.1507792): all of the
+    # friction is used, the slip reverses along its own line by less than e_t, and more friction
+    # would give more spin (the spin limit is not reached).
+    rng = np.random.default_rng(15)
+    kw, _ = _random_impacts(rng, 20_000)
+    mu = rng.uniform(0.0, 1.0, 20_000)
+    res = collide(**kw, e_n=0.85, mu=mu, e_t=0.5)
+    mid = res.stopped & ~res.grip
+    assert mid.sum() > 500
+    assert set(res.regime[mid]) == {"grip-slip"}
+    assert not res.spin_limit_reached[mid].any()
+    np.testing.assert_array_equal(res.spin_limit_reached, res.grip)
+    j_t = np.linalg.norm(res.tangential_impulse[mid], axis=1)
+    np.testing.assert_allclose(j_t, mu[mid] * res.normal_impulse[mid], rtol=1e-12)
+    u_in = _incoming_slip(kw)[mid]
+    u_out = _contact_point_slip(kw, res)[mid]
+    back = -np.einsum("ij,ij->i", u_in, u_out) / np.einsum("ij,ij->i", u_in, u_in)
+    assert np.all(back >= -1e-9) and np.all(back <= 0.5 + 1e-9)
+    np.testing.assert_allclose(u_out, -back[:, None] * u_in, atol=1e-9)
+
+
 def test_sliding_transfers_exactly_mu_times_normal_impulse():
     kw, _ = _random_impacts(np.random.default_rng(13), 20_000)
     mu = np.random.default_rng(14).uniform(0.0, 0.02, 20_000)
@@ -418,6 +441,7 @@ def test_scalar_list_and_array_inputs():
         "slip_linear_mps",
         "slip_spin_mps",
         "slip_ratio",
+        "stopped",
         "spin_limit_reached",
         "spin_ratio_out",
     ):

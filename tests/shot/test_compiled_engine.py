@@ -128,7 +128,8 @@ def test_compiled_impact_gives_numpys_metrics_for_every_racket_and_impact_point(
         _assert_same_metrics(got.metrics, want.metrics)
         regimes |= set(want.metrics["impact_regime"])
     assert struck == [n, n, n]
-    assert regimes == {"grip", "slide", "none"}
+    # the contact point that stops slips back only where the strings spring back
+    assert regimes == {"grip", "slide", "none"} | (set() if friction_only else {"grip-slip"})
     assert "miss" in set(want.metrics["outcome"])
 
 
