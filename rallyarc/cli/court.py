@@ -12,7 +12,7 @@ import math
 import click
 
 from rallyarc import units
-from rallyarc.cli.options import emit, json_option, loaded
+from rallyarc.cli.options import DEFORMING_BALL, emit, json_option, loaded
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
 
@@ -90,12 +90,15 @@ def surface(friction, restitution, preset, temperature, as_json):
 @click.option("--friction", default=None, help="Surface friction mu, 0 to 2.")
 @click.option("--restitution", default=None, help="Surface restitution e, 0 to 1.")
 @click.option("--ball", default="itf_type2", show_default=True, help="Ball preset or TOML file.")
+@DEFORMING_BALL
 @json_option()
-def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_json):
-    """The ball after one bounce, in the bounce's frame (x along the ball's horizontal travel)."""
+def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deforming_ball, as_json):
+    """The ball after one bounce, in the bounce's frame (x along the ball's horizontal travel),
+    with the shot chain's bounce: a compressing ball unless --rigid-ball."""
     import numpy as np
 
-    from rallyarc.bounce.contact import bounce as bounce_ball
+    from rallyarc.bounce.contact import bounce as bounce_rigid
+    from rallyarc.bounce.deform import bounce_deforming
     from rallyarc.domain import load_ball
 
     if surface_name is None and friction is None and restitution is None:
@@ -105,13 +108,14 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_jso
     theta = math.radians(units.number(angle, "--angle", 0.1, 90.0))
     w = units.number(spin, "--spin", -8000.0, 8000.0) * units.RPM
     preset = loaded("--ball", load_ball, ball)
-    res = bounce_ball(
+    state = (
         np.array([[v * math.cos(theta), 0.0, -v * math.sin(theta)]]),
         np.array([[0.0, w, 0.0]]),
-        preset.radius,
-        preset.alpha,
-        surf,
     )
+    if deforming_ball:
+        res = bounce_deforming(*state, preset.radius, preset.alpha, surf, preset.mass)
+    else:
+        res = bounce_rigid(*state, preset.radius, preset.alpha, surf)
     vx, vz = float(res.velocity[0, 0]), float(res.velocity[0, 2])
     spin_out = float(res.spin[0, 1])
     out_deg = math.degrees(math.atan2(vz, vx))
@@ -127,6 +131,7 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_jso
             "ball": ball,
             "radius_m": preset.radius,
             "alpha": preset.alpha,
+            "bounce_model": "deforming ball" if deforming_ball else "rigid ball",
         },
         # the fields of a shot's bounce block (rallyarc.shot.metrics), in the bounce's frame
         "bounce": {
@@ -148,6 +153,6 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, as_jso
         f"spin {w / units.RPM:+.0f} rpm",
         f"out:  vx {vx:.2f} m/s, vz {vz:.2f} m/s ({out['speed_out_mps'] * KMH_PER_MPS:.1f} km/h at "
         f"{out_deg:.1f} deg), {abs(out['spin_out_rpm']):.0f} rpm {word}",
-        f"regime: {out['regime']}",
+        f"regime: {out['regime']} ({data['inputs']['bounce_model']})",
     ]
     emit(data, as_json, lines)

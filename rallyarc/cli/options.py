@@ -21,6 +21,18 @@ SCENARIO_HELP = "Scenario preset or TOML file: conditions and incoming ball."
 FIGURE_SUFFIXES = (".png", ".pdf", ".svg")
 
 
+#: The court bounce of every command that bounces a ball: the compressing ball by default.
+DEFORMING_BALL = click.option(
+    "--deforming-ball/--rigid-ball",
+    "deforming_ball",
+    default=True,
+    help="The court bounce: a compressing ball (the default), whose friction acts at the "
+    "flattened contact below the centre, so a fast sliding ball picks up about half the "
+    "spin of a rigid one, as measured on fast serves; or --rigid-ball, friction at the full "
+    "radius.",
+)
+
+
 def emit(data, as_json, lines):
     """Print ``data`` as indented strict JSON (non-finite numbers as null), or the text
     ``lines`` (any non-finite number left in them shown as ``n/a``)."""

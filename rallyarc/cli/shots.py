@@ -8,6 +8,7 @@ import click
 
 from rallyarc import units
 from rallyarc.cli.options import (
+    DEFORMING_BALL,
     SCENARIO_HELP,
     check_ball_point,
     check_file,
@@ -48,24 +49,14 @@ FRICTION_ONLY = click.option(
 )
 
 
-DEFORMING_BALL = click.option(
-    "--deforming-ball",
-    is_flag=True,
-    help="Bounce a compressing ball: the court's friction acts at the flattened contact, below "
-    "the centre, so a sliding ball picks up less spin (default: a rigid ball).",
-)
-
-
-def _played_conditions(sc, friction_only, deforming_ball=False):
-    """The scenario's conditions, in friction-only mode and with a compressing ball's bounce
-    when asked."""
+def _played_conditions(sc, friction_only, deforming_ball=True):
+    """The scenario's conditions, in friction-only mode and with the bounce model asked for."""
     import dataclasses
 
-    if not (friction_only or deforming_ball):
-        return sc.conditions
-    return dataclasses.replace(
-        sc.conditions, friction_only=friction_only, deforming_ball=deforming_ball
-    )
+    c = sc.conditions
+    if friction_only == c.friction_only and deforming_ball == c.deforming_ball:
+        return c
+    return dataclasses.replace(c, friction_only=friction_only, deforming_ball=deforming_ball)
 
 
 def _modes(conditions):
@@ -74,7 +65,7 @@ def _modes(conditions):
         text
         for on, text in (
             (conditions.friction_only, "friction alone at the racket"),
-            (conditions.deforming_ball, "deforming ball at the bounce"),
+            (not conditions.deforming_ball, "rigid ball at the bounce"),
         )
         if on
     ]

@@ -136,11 +136,12 @@ class Conditions:
     #: Friction alone at the racket: the strings give no spring-back (tangential restitution
     #: 0), so the outgoing spin is what friction makes by itself.
     friction_only: bool = False
-    #: The court bounce of a compressing ball (:func:`rallyarc.bounce.deform.bounce_deforming`):
-    #: the court's friction acts at the flattened contact, below the centre, so a sliding ball
-    #: picks up less spin. Off by default (a rigid ball, :func:`rallyarc.bounce.contact.bounce`):
-    #: no measurement confirmed for this project sets the size of the effect.
-    deforming_ball: bool = False
+    #: The court bounce of a compressing ball (:func:`rallyarc.bounce.deform.bounce_deforming`,
+    #: the default): the court's friction acts at the flattened contact, below the centre, so a
+    #: fast sliding ball picks up less spin than a rigid one (about twice its spin in, as
+    #: high-speed video of fast serves shows, where a rigid ball gains three and a half times:
+    #: ``tests/validation``). False: a rigid ball (:func:`rallyarc.bounce.contact.bounce`).
+    deforming_ball: bool = True
 
     def flight_params(self):
         """Flight parameters of this ball in this air, with the spin decay of

@@ -94,17 +94,26 @@ def test_feed_from_the_far_end_is_the_near_feed_turned_about_z():
 
 
 def test_bounce_pace_test_geometry():
-    # REFERENCES.md worked value (sliding at 30 m/s, 16 deg, mu 0.6, e 0.8): vx 19.907, vz 6.615
-    data = run_json(
-        "bounce", "--speed", "30", "--angle", "16", "--friction", "0.6", "--restitution", "0.8"
-    )
-    assert data["bounce"]["vx_out_mps"] == pytest.approx(19.907, abs=1e-3)
-    assert data["bounce"]["vz_out_mps"] == pytest.approx(6.615, abs=1e-3)
-    assert data["bounce"]["regime"] == "slide"
+    # REFERENCES.md worked value for a rigid ball (sliding at 30 m/s, 16 deg, mu 0.6, e 0.8):
+    # vx 19.907, vz 6.615. The default compressing ball slides with the same rebound and less
+    # spin (the friction's lever arm is shorter).
+    args = ("bounce", "--speed", "30", "--angle", "16", "--friction", "0.6", "--restitution", "0.8")
+    rigid = run_json(*args, "--rigid-ball")
+    assert rigid["bounce"]["vx_out_mps"] == pytest.approx(19.907, abs=1e-3)
+    assert rigid["bounce"]["vz_out_mps"] == pytest.approx(6.615, abs=1e-3)
+    assert rigid["bounce"]["regime"] == "slide"
+    assert rigid["inputs"]["bounce_model"] == "rigid ball"
+    soft = run_json(*args)
+    assert soft["inputs"]["bounce_model"] == "deforming ball"
+    assert soft["bounce"]["regime"] == "slide"
+    for key in ("vx_out_mps", "vz_out_mps"):
+        assert soft["bounce"][key] == pytest.approx(rigid["bounce"][key], rel=1e-12)
+    assert 0.0 < soft["bounce"]["spin_out_rpm"] < rigid["bounce"]["spin_out_rpm"]
 
 
 def test_bounce_grip_worked_value():
-    # REFERENCES.md: v = (15, -15) m/s, no spin, mu 0.6, e 0.8 -> grip, vx 9.6774, vz 12.0
+    # REFERENCES.md, rigid ball: v = (15, -15) m/s, no spin, mu 0.6, e 0.8 -> grip, vx 9.6774,
+    # vz 12.0
     data = run_json(
         "bounce",
         "--speed",
@@ -115,6 +124,7 @@ def test_bounce_grip_worked_value():
         "0.6",
         "--restitution",
         "0.8",
+        "--rigid-ball",
     )
     assert data["bounce"]["regime"] == "grip"
     assert data["bounce"]["vx_out_mps"] == pytest.approx(9.6774, abs=1e-3)

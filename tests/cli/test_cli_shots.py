@@ -161,19 +161,23 @@ def test_real_process_prints_one_line_on_stderr(tmp_path):
     assert "0 to 1" in proc.stderr
 
 
-def test_deforming_ball_flag_changes_only_the_bounce():
-    # The flag swaps the court bounce for the compressing ball's; impact and first flight are the
-    # same, and the sliding flat serve picks up less spin at the bounce (lever arm below r).
-    plain = json.loads(run("compare", "serve_demo", "--json").output)["shots"]
-    soft_run = run("compare", "serve_demo", "--deforming-ball", "--json")
-    assert soft_run.exit_code == 0, soft_run.output
-    soft = json.loads(soft_run.output)["shots"]
-    for a, b in zip(plain, soft, strict=True):
+def test_rigid_ball_flag_changes_only_the_bounce():
+    # The default bounce is the compressing ball's; --rigid-ball swaps it for the rigid ball's.
+    # Impact and first flight are the same, and the sliding flat serve picks up more spin at the
+    # bounce on the rigid ball (friction at the full radius). --deforming-ball names the default.
+    soft = json.loads(run("compare", "serve_demo", "--json").output)["shots"]
+    rigid_run = run("compare", "serve_demo", "--rigid-ball", "--json")
+    assert rigid_run.exit_code == 0, rigid_run.output
+    rigid = json.loads(rigid_run.output)["shots"]
+    named = json.loads(run("compare", "serve_demo", "--deforming-ball", "--json").output)
+    assert named["shots"] == soft
+    for a, b in zip(soft, rigid, strict=True):
         assert a["impact"] == b["impact"] and a["landing"] == b["landing"]
-    assert {s["inputs"]["bounce_model"] for s in plain} == {"rigid ball"}
     assert {s["inputs"]["bounce_model"] for s in soft} == {"deforming ball"}
-    flat_plain = next(s for s in plain if s["inputs"]["label"] == "flat_serve")
+    assert {s["inputs"]["bounce_model"] for s in rigid} == {"rigid ball"}
     flat_soft = next(s for s in soft if s["inputs"]["label"] == "flat_serve")
-    assert flat_soft["bounce"]["spin_out_rpm"] < flat_plain["bounce"]["spin_out_rpm"] - 500.0
-    assert run("shot", "--stroke", "kick_serve", "--scenario", "serve_demo",
-               "--deforming-ball").exit_code == 0  # fmt: skip
+    flat_rigid = next(s for s in rigid if s["inputs"]["label"] == "flat_serve")
+    assert flat_soft["bounce"]["spin_out_rpm"] < flat_rigid["bounce"]["spin_out_rpm"] - 500.0
+    table = run("shot", "--stroke", "kick_serve", "--scenario", "serve_demo", "--rigid-ball")
+    assert table.exit_code == 0 and "rigid ball at the bounce" in table.output
+    assert "rigid ball" not in run("compare", "serve_demo").output
