@@ -93,12 +93,14 @@ def story_html(sc):
         _row("surface", c.surface_name),
         _row("court", "singles" if c.singles else "doubles"),
         _row("receiver's plane behind the far baseline [m]", f"{c.receiver_plane_m:g}"),
+        _row("bounce", "deforming ball" if c.deforming_ball else "rigid ball"),
     ]
     ball_rows = [
         _row("ball", c.ball.name),
         _row("diameter [mm]", f"{2000 * c.ball.radius:.1f}"),
         _row("mass [g]", f"{1000 * c.ball.mass:.1f}"),
         _row("racket", c.racket.name),
+        _row("strings", "friction alone" if c.friction_only else "friction and spring-back"),
         _row("air", c.air.name),
         _row("air density [kg/m^3]", f"{c.air.density:.3f}"),
     ]

@@ -160,3 +160,22 @@ def demo_result():
 
     sc = domain.load_scenario("demo")
     return play(sc.strokes, sc.conditions, BallState.of(*domain.incoming_state(sc.incoming)))
+
+
+def test_the_story_names_the_bounce_and_string_models(pages):
+    # the page says which physics it was played with: the defaults, or the modes asked for
+    import dataclasses
+
+    from rallyarc import domain
+    from rallyarc.viz.report import story_html
+
+    text = pages["report"].read_text(encoding="utf-8")
+    assert "deforming ball" in text and "friction and spring-back" in text
+    assert "rigid ball" not in text
+    sc = domain.load_scenario("demo")
+    other = dataclasses.replace(
+        sc, conditions=dataclasses.replace(sc.conditions, deforming_ball=False, friction_only=True)
+    )
+    story = story_html(other)
+    assert "rigid ball" in story and "friction alone" in story
+    assert "deforming ball" not in story
