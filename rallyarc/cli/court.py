@@ -77,6 +77,36 @@ def surface(friction, restitution, preset, temperature, as_json):
     emit(data, as_json, lines)
 
 
+def _one_bounce(v, theta, w, ball, surface, deforming_ball):
+    """One ball arriving at speed ``v`` [m/s], ``theta`` below the horizontal [rad] with topspin
+    ``w`` [rad/s], bounced as the shot chain bounces it (a compressing ball unless
+    ``deforming_ball`` is False)."""
+    import numpy as np
+
+    from rallyarc.bounce.contact import bounce as bounce_rigid
+    from rallyarc.bounce.deform import bounce_deforming
+
+    velocity = np.array([[v * math.cos(theta), 0.0, -v * math.sin(theta)]])
+    spin = np.array([[0.0, w, 0.0]])
+    if deforming_ball:
+        return bounce_deforming(velocity, spin, ball.radius, ball.alpha, surface, ball.mass)
+    return bounce_rigid(velocity, spin, ball.radius, ball.alpha, surface)
+
+
+def _bounce_lines(data):
+    """The text of ``rallyarc bounce``'s answer."""
+    inp, out = data["inputs"], data["bounce"]
+    word = "topspin" if out["spin_out_rpm"] >= 0 else "backspin"
+    return [
+        f"in:   {inp['speed_kmh']:.1f} km/h at {inp['angle_deg']:.1f} deg, "
+        f"spin {inp['spin_rpm']:+.0f} rpm",
+        f"out:  vx {out['vx_out_mps']:.2f} m/s, vz {out['vz_out_mps']:.2f} m/s "
+        f"({out['speed_out_mps'] * KMH_PER_MPS:.1f} km/h at {out['angle_out_deg']:.1f} deg), "
+        f"{abs(out['spin_out_rpm']):.0f} rpm {word}",
+        f"regime: {out['regime']} ({inp['bounce_model']})",
+    ]
+
+
 @click.command("bounce")
 @click.option("--speed", required=True, help="Incoming speed: 20, 72km/h, 45mph.")
 @click.option("--angle", required=True, help="Incoming angle below horizontal [deg], 0 to 90.")
@@ -95,10 +125,6 @@ def surface(friction, restitution, preset, temperature, as_json):
 def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deforming_ball, as_json):
     """The ball after one bounce, in the bounce's frame (x along the ball's horizontal travel),
     with the shot chain's bounce: a compressing ball unless --rigid-ball."""
-    import numpy as np
-
-    from rallyarc.bounce.contact import bounce as bounce_rigid
-    from rallyarc.bounce.deform import bounce_deforming
     from rallyarc.domain import load_ball
 
     if surface_name is None and friction is None and restitution is None:
@@ -108,17 +134,9 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deform
     theta = math.radians(units.number(angle, "--angle", 0.1, 90.0))
     w = units.number(spin, "--spin", -8000.0, 8000.0) * units.RPM
     preset = loaded("--ball", load_ball, ball)
-    state = (
-        np.array([[v * math.cos(theta), 0.0, -v * math.sin(theta)]]),
-        np.array([[0.0, w, 0.0]]),
-    )
-    if deforming_ball:
-        res = bounce_deforming(*state, preset.radius, preset.alpha, surf, preset.mass)
-    else:
-        res = bounce_rigid(*state, preset.radius, preset.alpha, surf)
+    res = _one_bounce(v, theta, w, preset, surf, deforming_ball)
     vx, vz = float(res.velocity[0, 0]), float(res.velocity[0, 2])
     spin_out = float(res.spin[0, 1])
-    out_deg = math.degrees(math.atan2(vz, vx))
     data = {
         "inputs": {
             "speed_mps": v,
@@ -138,7 +156,7 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deform
             "speed_in_mps": v,
             "angle_in_deg": math.degrees(theta),
             "speed_out_mps": math.hypot(vx, vz),
-            "angle_out_deg": out_deg,
+            "angle_out_deg": math.degrees(math.atan2(vz, vx)),
             "spin_in_rpm": w / units.RPM,
             "spin_out_rpm": spin_out / units.RPM,
             "vx_out_mps": vx,
@@ -146,13 +164,4 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deform
             "regime": str(res.regime[0]),
         },
     }
-    out = data["bounce"]
-    word = "topspin" if spin_out >= 0 else "backspin"
-    lines = [
-        f"in:   {v * KMH_PER_MPS:.1f} km/h at {math.degrees(theta):.1f} deg, "
-        f"spin {w / units.RPM:+.0f} rpm",
-        f"out:  vx {vx:.2f} m/s, vz {vz:.2f} m/s ({out['speed_out_mps'] * KMH_PER_MPS:.1f} km/h at "
-        f"{out_deg:.1f} deg), {abs(out['spin_out_rpm']):.0f} rpm {word}",
-        f"regime: {out['regime']} ({data['inputs']['bounce_model']})",
-    ]
-    emit(data, as_json, lines)
+    emit(data, as_json, _bounce_lines(data))
