@@ -79,18 +79,15 @@ def surface(friction, restitution, preset, temperature, as_json):
 
 def _one_bounce(v, theta, w, ball, surface, deforming_ball):
     """One ball arriving at speed ``v`` [m/s], ``theta`` below the horizontal [rad] with topspin
-    ``w`` [rad/s], bounced as the shot chain bounces it (a compressing ball unless
-    ``deforming_ball`` is False)."""
+    ``w`` [rad/s], bounced as the shot chain bounces it: on the surface as this ball meets it,
+    a compressing ball unless ``deforming_ball`` is False."""
     import numpy as np
 
-    from rallyarc.bounce.contact import bounce as bounce_rigid
-    from rallyarc.bounce.deform import bounce_deforming
+    from rallyarc.domain import court_bounce, surface_for
 
     velocity = np.array([[v * math.cos(theta), 0.0, -v * math.sin(theta)]])
     spin = np.array([[0.0, w, 0.0]])
-    if deforming_ball:
-        return bounce_deforming(velocity, spin, ball.radius, ball.alpha, surface, ball.mass)
-    return bounce_rigid(velocity, spin, ball.radius, ball.alpha, surface)
+    return court_bounce(ball, surface_for(ball, surface), velocity, spin, deforming_ball)
 
 
 def _bounce_lines(data):
@@ -146,6 +143,7 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deform
             "surface": name,
             "surface_friction": surf.friction,
             "surface_restitution": surf.restitution,
+            "restitution_for_ball": float(res.restitution[0]),
             "ball": ball,
             "radius_m": preset.radius,
             "alpha": preset.alpha,

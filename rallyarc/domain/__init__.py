@@ -32,7 +32,9 @@ from rallyarc.domain.objects import (
     Scenario,
     Stroke,
     Toss,
+    court_bounce,
     reference_restitution,
+    surface_for,
 )
 
 __all__ = [
@@ -48,6 +50,7 @@ __all__ = [
     "Toss",
     "drop_test_rebound",
     "incoming_state",
+    "court_bounce",
     "load_air",
     "load_ball",
     "load_machine",
@@ -59,4 +62,5 @@ __all__ = [
     "reference_ball",
     "reference_restitution",
     "stroke_from_dict",
+    "surface_for",
 ]

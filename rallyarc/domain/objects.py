@@ -122,6 +122,25 @@ class Stroke:
         return replace(self, swing_direction=swing_direction, face_azimuth=face)
 
 
+def court_bounce(ball, surface, velocity, spin, deforming_ball=True):
+    """The court bounce of N balls of ``ball`` arriving with ``velocity`` and ``spin``
+    ``(N, 3)`` on ``surface`` as this ball meets it (:func:`surface_for`), as the shot chain
+    bounces them: a compressing ball's bounce (:func:`rallyarc.bounce.deform.bounce_deforming`)
+    unless ``deforming_ball`` is False (a rigid ball's, :func:`rallyarc.bounce.contact.bounce`)."""
+    if deforming_ball:
+        return bounce_deforming(velocity, spin, ball.radius, ball.alpha, surface, ball.mass)
+    return bounce(velocity, spin, ball.radius, ball.alpha, surface)
+
+
+def surface_for(ball, surface, reference=None):
+    """``surface`` as ``ball`` meets it: its restitution, measured with the reference ball
+    (drop-test restitution ``reference``, :func:`reference_restitution` unless given), scaled by
+    the ratio of this ball's drop-test restitution to the reference ball's (at most 1)."""
+    reference = reference_restitution() if reference is None else reference
+    scale = ball.restitution / reference
+    return replace(surface, restitution=min(1.0, surface.restitution * scale))
+
+
 @dataclass(frozen=True)
 class Conditions:
     """Everything a shot is played in: ball, racket, air, surface and the receiver's plane."""
@@ -159,8 +178,7 @@ class Conditions:
     def __post_init__(self):
         if self.reference_restitution is None:
             object.__setattr__(self, "reference_restitution", reference_restitution())
-        scale = self.ball.restitution / self.reference_restitution
-        surface = replace(self.surface, restitution=min(1.0, self.surface.restitution * scale))
+        surface = surface_for(self.ball, self.surface, self.reference_restitution)
         object.__setattr__(self, "ball_surface", surface)
         ball = self.ball
         decay = spin_decay_rate(self.air.density, ball.radius, ball.mass, ball.alpha, ball.aero)
@@ -185,10 +203,7 @@ class Conditions:
         surface as this ball meets it: a rigid ball's (:func:`rallyarc.bounce.contact.bounce`),
         or a compressing ball's when :attr:`deforming_ball`
         (:func:`rallyarc.bounce.deform.bounce_deforming`)."""
-        ball, surface = self.ball, self.ball_surface
-        if self.deforming_ball:
-            return bounce_deforming(velocity, spin, ball.radius, ball.alpha, surface, ball.mass)
-        return bounce(velocity, spin, ball.radius, ball.alpha, surface)
+        return court_bounce(self.ball, self.ball_surface, velocity, spin, self.deforming_ball)
 
     def string_contact(self, ball_velocity, face_velocity, face_normal):
         """The string bed's contact coefficients for N impacts: normal restitution at each

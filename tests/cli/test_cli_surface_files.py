@@ -75,3 +75,27 @@ def test_surface_rating_of_a_file_follows_every_key(wet_clay):
     assert data["ball_gripped"] is bool(rating.ball_gripped)
     plain = run_json("surface", "--friction", 0.8, "--restitution", 0.85)
     assert plain["court_pace_rating"] != data["court_pace_rating"]
+
+
+@pytest.mark.parametrize("ball", ["itf_type2", "stage_red"])
+@pytest.mark.parametrize("flag", [[], ["--rigid-ball"]])
+def test_bounce_command_bounces_as_the_shot_chain_does(ball, flag):
+    # one bounce from the command equals the chain's bounce for the same ball and surface: the
+    # surface's restitution scaled to the ball (a stage ball bounces lower), the same model
+    import dataclasses
+
+    data = run_json("bounce", "--speed", 20, "--angle", 30, "--ball", ball, *flag)
+    sc = domain.load_scenario("demo")
+    conditions = dataclasses.replace(
+        sc.conditions, ball=domain.load_ball(ball), deforming_ball=not flag
+    )
+    theta = math.radians(30.0)
+    res = conditions.bounce(
+        np.array([[20.0 * math.cos(theta), 0.0, -20.0 * math.sin(theta)]]), np.zeros((1, 3))
+    )
+    assert data["bounce"]["vx_out_mps"] == float(res.velocity[0, 0])
+    assert data["bounce"]["vz_out_mps"] == float(res.velocity[0, 2])
+    assert data["bounce"]["spin_out_rpm"] == float(res.spin[0, 1]) / RPM
+    assert data["inputs"]["restitution_for_ball"] == float(res.restitution[0])
+    if ball == "stage_red":
+        assert data["inputs"]["restitution_for_ball"] < data["inputs"]["surface_restitution"]
