@@ -198,6 +198,7 @@ def scene_page(result, camera="hitter"):
         "per stroke)"
     )
     title = f"{', '.join(display_label(x) for x in order)} on {c.surface_name}"
+    title += "".join(f"; {m}" for m in c.modes)
     return ScenePage(title, legend, markers, camera)
 
 

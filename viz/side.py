@@ -291,7 +291,8 @@ def _side_legends(fig, ax, own, result, many):
 
 def _side_title(result):
     c = result.conditions
+    modes = "".join(f"; {m}" for m in c.modes)
     return (
         f"Side view: height of the ball down the court ({c.surface_name}, ball {c.ball.name}, "
-        f"air {c.air.density:.3f} kg/m³)"
+        f"air {c.air.density:.3f} kg/m³{modes})"
     )

@@ -195,4 +195,5 @@ def held_fixed(result):
                 parts.append(f"{name} {fmt.format(m[key][0] * scale)}")
     c = result.conditions
     parts.append(f"ball {c.ball.name}, surface {c.surface_name}, air {c.air.name}")
+    parts.extend(c.modes)
     return "held fixed: " + ", ".join(parts)

@@ -72,7 +72,8 @@ def top_view(result, ax=None, dt=0.004, min_shots=10):
     ax.set_ylabel("across the court y [m] (+ left of the hitter)")
     ax.set_title(
         f"Top view: paths and landings ({'singles' if c.singles else 'doubles'} court, "
-        f"{len(result)} shot{'s' if len(result) != 1 else ''})",
+        f"{len(result)} shot{'s' if len(result) != 1 else ''}"
+        f"{''.join(f'; {m}' for m in c.modes)})",
         fontsize=10,
         loc="left",
     )

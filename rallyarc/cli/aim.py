@@ -73,13 +73,13 @@ def aim():
 )
 @condition_options
 @_output_options
-def aim_stroke_cmd(stroke, scenario, target, free, clearance, receiver_height, ball, racket, air,
-                   surface_name, receiver_plane, as_json, csv_path, dt, force):  # fmt: skip
+def aim_stroke_cmd(stroke, scenario, target, free, clearance, receiver_height, overrides,
+                   as_json, csv_path, dt, force):  # fmt: skip
     """The swing of a stroke style that lands the ball on --target."""
     from rallyarc import domain
     from rallyarc.aim import aim_stroke
 
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    sc = scenario_with(scenario, overrides)
     st = domain.load_stroke(stroke)
     tx, ty = court_point(target)
     if clearance is not None and receiver_height is not None:
@@ -161,8 +161,8 @@ def _stroke_lines(st, data, m):
 @click.option("--scenario", default="demo", show_default=True, help=SCENARIO_HELP)
 @condition_options
 @_output_options
-def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, ball, racket, air,
-                 surface_name, receiver_plane, as_json, csv_path, dt, force):  # fmt: skip
+def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, overrides, as_json,
+                 csv_path, dt, force):  # fmt: skip
     """The machine speed, elevation and aim that land a fed ball on --target.
 
     Ball machines can injure: nobody in the machine's line of fire, start at low feed speeds,
@@ -170,7 +170,7 @@ def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, ball,
     """
     from rallyarc.aim import aim_feed, load_machine
 
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    sc = scenario_with(scenario, overrides)
     mach = load_machine(machine)
     mx, my = court_point(position, "--at")
     if abs(mx) < 1.0:

@@ -8,8 +8,10 @@ Heavy imports (the library's solvers, pandas, matplotlib) stay inside the functi
 
 from __future__ import annotations
 
+import functools
 import math
 import re
+from dataclasses import dataclass
 from pathlib import Path
 
 import click
@@ -218,8 +220,41 @@ def check_file(path, force, option="--csv", suffixes=TABLE_SUFFIXES):
 # ----------------------------------------------------------------------------- conditions
 
 
+FRICTION_ONLY = click.option(
+    "--friction-only",
+    is_flag=True,
+    help="Friction alone at the racket: no spring-back of the strings (tangential restitution "
+    "0), to see how much of the spin friction makes by itself.",
+)
+
+
+@dataclass(frozen=True)
+class Overrides:
+    """What the user changed of a scenario's conditions: presets or files by name (None: the
+    scenario's own), the receiver's plane as typed, and the physics modes."""
+
+    ball: str | None = None
+    racket: str | None = None
+    air: str | None = None
+    surface_name: str | None = None
+    receiver_plane: str | None = None
+    friction_only: bool = False
+    deforming_ball: bool = True
+
+
+_OVERRIDE_KEYS = tuple(Overrides.__dataclass_fields__)
+
+
 def condition_options(func):
-    """--ball, --racket, --air, --surface and --receiver-plane: overrides of a scenario."""
+    """--ball, --racket, --air, --surface, --receiver-plane, --friction-only and
+    --deforming-ball/--rigid-ball: overrides of a scenario, given to the command as one
+    ``overrides`` argument (:class:`Overrides`)."""
+
+    @functools.wraps(func)
+    def command(*args, **kwargs):
+        overrides = Overrides(**{key: kwargs.pop(key) for key in _OVERRIDE_KEYS})
+        return func(*args, overrides=overrides, **kwargs)
+
     for opt in reversed(
         [
             click.option("--ball", default=None, help="Ball preset or TOML file."),
@@ -231,10 +266,12 @@ def condition_options(func):
                 default=None,
                 help="Receiver's contact plane behind the far baseline [m], 0 to 10.",
             ),
+            FRICTION_ONLY,
+            DEFORMING_BALL,
         ]
     ):
-        func = opt(func)
-    return func
+        command = opt(command)
+    return command
 
 
 def loaded(option, loader, value):
@@ -246,26 +283,33 @@ def loaded(option, loader, value):
         raise InputError(f"{option}: {exc}") from None
 
 
-def scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, option="--scenario"):
-    """The scenario with any condition the user overrides; errors name the option."""
+def scenario_with(scenario, overrides=None, option="--scenario"):
+    """The scenario with any condition the user overrides (:class:`Overrides`); errors name
+    the option."""
     from dataclasses import replace
 
     from rallyarc import domain
 
+    o = Overrides() if overrides is None else overrides
     sc = loaded(option, domain.load_scenario, scenario)
     changes = {}
-    if ball is not None:
-        changes["ball"] = loaded("--ball", domain.load_ball, ball)
-    if racket is not None:
-        changes["racket"] = loaded("--racket", domain.load_racket, racket)
-    if air is not None:
-        changes["air"] = loaded("--air", domain.load_air, air)
-    if surface_name is not None:
-        changes["surface"] = loaded("--surface", domain.load_surface, surface_name)
-        changes["surface_name"] = surface_name
-    if receiver_plane is not None:
-        changes["receiver_plane_m"] = units.number(receiver_plane, "--receiver-plane", 0.0, 10.0)
-    sc = replace(sc, conditions=replace(sc.conditions, **changes)) if changes else sc
+    if o.ball is not None:
+        changes["ball"] = loaded("--ball", domain.load_ball, o.ball)
+    if o.racket is not None:
+        changes["racket"] = loaded("--racket", domain.load_racket, o.racket)
+    if o.air is not None:
+        changes["air"] = loaded("--air", domain.load_air, o.air)
+    if o.surface_name is not None:
+        changes["surface"] = loaded("--surface", domain.load_surface, o.surface_name)
+        changes["surface_name"] = o.surface_name
+    if o.receiver_plane is not None:
+        changes["receiver_plane_m"] = units.number(o.receiver_plane, "--receiver-plane", 0.0, 10.0)
+    c = sc.conditions
+    if o.friction_only != c.friction_only:
+        changes["friction_only"] = o.friction_only
+    if o.deforming_ball != c.deforming_ball:
+        changes["deforming_ball"] = o.deforming_ball
+    sc = replace(sc, conditions=replace(c, **changes)) if changes else sc
     check_scenario(sc, option)
     return sc
 
@@ -341,10 +385,10 @@ def figure_output_option(default):
     return deco
 
 
-def load_strokes(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane):
+def load_strokes(scenario, stroke_names, overrides):
     """The scenario with its overrides, the strokes chosen by name (default: all) and the
     incoming ball."""
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, "SCENARIO")
+    sc = scenario_with(scenario, overrides, "SCENARIO")
     strokes = list(sc.strokes)
     if stroke_names:
         by_name = {s.name: s for s in strokes}

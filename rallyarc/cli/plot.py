@@ -47,15 +47,12 @@ def plot():
 MOST_SIDE_SCATTER = 2000
 
 
-def _view(draw, scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter,
-          seed, out, force, most=MOST_SCATTER):  # fmt: skip
+def _view(draw, scenario, stroke_names, overrides, scatter, seed, out, force, most=MOST_SCATTER):
     from rallyarc.output import export
 
     path = figure_path(out)
     export.check_targets([path], force)
-    sc, strokes, incoming = load_strokes(
-        scenario, stroke_names, ball, racket, air, surface_name, receiver_plane
-    )
+    sc, strokes, incoming = load_strokes(scenario, stroke_names, overrides)
     result = play_shots(sc, strokes, incoming, scatter, seed, most)
     click.echo(f"written: {save_figure(draw(result), path)}")
 
@@ -118,13 +115,11 @@ def _range(text, option, parameter, nominal):
     return lo, hi
 
 
-def _one_stroke(scenario, stroke_name, ball, racket, air, surface_name, receiver_plane):
+def _one_stroke(scenario, stroke_name, overrides):
     """The scenario, its stroke named ``stroke_name`` (default: the first) and the incoming ball
     (None for a serve)."""
     chosen = (stroke_name,) if stroke_name else ()
-    sc, strokes, incoming = load_strokes(
-        scenario, chosen, ball, racket, air, surface_name, receiver_plane
-    )
+    sc, strokes, incoming = load_strokes(scenario, chosen, overrides)
     stroke = strokes[0]
     return sc, stroke, None if stroke.kind == "serve" else incoming
 
@@ -163,8 +158,8 @@ def _metric_keys(metrics):
 @click.option("--csv", "csv_path", default=None, help="Also write the sweep's numbers (.csv).")
 @condition_options
 @figure_output_option("sweep.png")
-def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, ball, racket, air,
-               surface_name, receiver_plane, out, force):  # fmt: skip
+def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, overrides, out,
+               force):  # fmt: skip
     """What one parameter changes: net clearance, depth, bounce apex and height at the
     receiver's plane against the swept value, for one stroke of SCENARIO."""
     import numpy as np
@@ -181,9 +176,7 @@ def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, bal
         export.check_targets([csv_path], force, "--csv")
     n = whole(steps, "--steps", 2, 500)
     p = _parameter(param, "--param")
-    sc, stroke, incoming = _one_stroke(
-        scenario, stroke_name, ball, racket, air, surface_name, receiver_plane
-    )
+    sc, stroke, incoming = _one_stroke(scenario, stroke_name, overrides)
     nominal = _nominal(stroke, p, sc, incoming)
     lo, hi = _range(span, "--range", p, nominal)
     values = np.linspace(lo, hi, n)
@@ -215,8 +208,7 @@ def plot_sweep(scenario, stroke_name, param, span, steps, metrics, csv_path, bal
 @click.option("--steps", default="41", show_default=True, help="Grid cells per axis, 3 to 201.")
 @condition_options
 @figure_output_option("window.png")
-def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, racket, air,
-                surface_name, receiver_plane, out, force):  # fmt: skip
+def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, overrides, out, force):
     """A success window: outcome (in, net, long, wide) over a grid of two parameters, with the
     margins to each edge, for one stroke of SCENARIO."""
     import numpy as np
@@ -240,9 +232,7 @@ def plot_window(scenario, stroke_name, axes, x_range, y_range, steps, ball, rack
             "launch parameters (launch_speed, launch_angle, launch_spin)"
         ) from None
     n = whole(steps, "--steps", 3, 201)
-    sc, stroke, incoming = _one_stroke(
-        scenario, stroke_name, ball, racket, air, surface_name, receiver_plane
-    )
+    sc, stroke, incoming = _one_stroke(scenario, stroke_name, overrides)
     xlo, xhi = _range(x_range, "--x-range", px, _nominal(stroke, px, sc, incoming))
     ylo, yhi = _range(y_range, "--y-range", py, _nominal(stroke, py, sc, incoming))
     w = window.window(

@@ -77,8 +77,7 @@ def _drill(name):
 )
 @click.option("--no-studies", is_flag=True, help="Leave out the main stroke's sweep and window.")
 @click.option("--force", is_flag=True, help="Overwrite an existing file.")
-def report(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter, seed,
-           out, drill_name, no_studies, force):  # fmt: skip
+def report(scenario, stroke_names, overrides, scatter, seed, out, drill_name, no_studies, force):
     """One self-contained HTML page for SCENARIO (default demo): the story, the comparison
     table, side and top views, the main stroke's sweep and success window, the 3D view (tap a
     path for its numbers) and, with --drill, the drill sheet. Opens offline on a phone or a
@@ -90,9 +89,7 @@ def report(scenario, stroke_names, ball, racket, air, surface_name, receiver_pla
 
     path = figure_path(out, "--out", (".html",))
     export.check_targets([path], force, "--out")
-    sc, strokes, incoming = load_strokes(
-        scenario, stroke_names, ball, racket, air, surface_name, receiver_plane
-    )
+    sc, strokes, incoming = load_strokes(scenario, stroke_names, overrides)
     result = play(strokes, sc.conditions, incoming)
     spread = play_shots(sc, strokes, incoming, scatter, seed) if str(scatter) != "0" else None
     try:

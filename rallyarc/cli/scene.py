@@ -38,8 +38,8 @@ from rallyarc.errors import InputError
 )
 @click.option("--show", is_flag=True, help="Open an interactive window (needs a display).")
 @click.option("--force", is_flag=True, help="Overwrite existing files.")
-def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plane, scatter, seed,
-          camera, out, export_path, show, force):  # fmt: skip
+def scene(scenario, stroke_names, overrides, scatter, seed, camera, out, export_path, show,
+          force):  # fmt: skip
     """The shots of SCENARIO in 3D: court, net, paths as tubes, markers at contact, net crossing,
     bounce and apex. Rendered off screen to PNG; --export writes a self-contained HTML page (any
     web browser, no Python) or a glTF file; --show opens a window."""
@@ -62,9 +62,7 @@ def scene(scenario, stroke_names, ball, racket, air, surface_name, receiver_plan
     if show and not scenes.has_display():
         raise InputError("--show: no display found (DISPLAY is not set); the PNG is still written "
                          "without --show")  # fmt: skip
-    sc, strokes, incoming = load_strokes(
-        scenario, stroke_names, ball, racket, air, surface_name, receiver_plane
-    )
+    sc, strokes, incoming = load_strokes(scenario, stroke_names, overrides)
     result = play_shots(sc, strokes, incoming, scatter, seed)
     written = []
     for c, p in zip(cameras[: len(pngs)], pngs, strict=True):

@@ -8,7 +8,6 @@ import click
 
 from rallyarc import units
 from rallyarc.cli.options import (
-    DEFORMING_BALL,
     SCENARIO_HELP,
     check_ball_point,
     check_file,
@@ -41,35 +40,9 @@ COMPARE_OUTPUTS = (
 )
 
 
-FRICTION_ONLY = click.option(
-    "--friction-only",
-    is_flag=True,
-    help="Friction alone at the racket: no spring-back of the strings (tangential restitution "
-    "0), to see how much of the spin friction makes by itself.",
-)
-
-
-def _played_conditions(sc, friction_only, deforming_ball=True):
-    """The scenario's conditions, in friction-only mode and with the bounce model asked for."""
-    import dataclasses
-
-    c = sc.conditions
-    if friction_only == c.friction_only and deforming_ball == c.deforming_ball:
-        return c
-    return dataclasses.replace(c, friction_only=friction_only, deforming_ball=deforming_ball)
-
-
 def _modes(conditions):
     """The non-default physics modes of played conditions, for a table's title ("" if none)."""
-    modes = [
-        text
-        for on, text in (
-            (conditions.friction_only, "friction alone at the racket"),
-            (not conditions.deforming_ball, "rigid ball at the bounce"),
-        )
-        if on
-    ]
-    return "; " + "; ".join(modes) if modes else ""
+    return "; " + "; ".join(conditions.modes) if conditions.modes else ""
 
 
 @click.command()
@@ -87,8 +60,6 @@ def _modes(conditions):
 @click.option("--incoming-speed", default=None, help="Override: incoming ball speed.")
 @click.option("--incoming-spin", default=None, help="Override: incoming topspin [rpm].")
 @condition_options
-@FRICTION_ONLY
-@DEFORMING_BALL
 @json_option()
 @click.option(
     "--csv", "csv_path", default=None, help="Write the trajectory table to this CSV file."
@@ -96,8 +67,7 @@ def _modes(conditions):
 @dt_option
 @force_option("Overwrite existing output files.")
 def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, contact,
-         incoming_speed, incoming_spin, ball, racket, air, surface_name, receiver_plane,
-         friction_only, deforming_ball, as_json, csv_path, dt, force):  # fmt: skip
+         incoming_speed, incoming_spin, overrides, as_json, csv_path, dt, force):  # fmt: skip
     """One stroke against the scenario's incoming ball (or a serve against its toss):
     impact, net, landing, bounce and the ball at the receiver."""
     from rallyarc import domain
@@ -105,7 +75,7 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
     from rallyarc.output.tables import comparison_table
     from rallyarc.shot import play
 
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane)
+    sc = scenario_with(scenario, overrides)
     st = loaded("--stroke", domain.load_stroke, stroke)
     st = _swing(st, head_speed, swing_path, face_tilt, swing_direction)
     step = time_step(dt)
@@ -117,7 +87,7 @@ def shot(stroke, scenario, head_speed, swing_path, face_tilt, swing_direction, c
         check_ball_point(st.toss.contact, "--contact" if contact else f"--stroke {stroke}", r)
     elif contact is not None:
         check_ball_point(incoming.position[0], "--contact", r)
-    c = _played_conditions(sc, friction_only, deforming_ball)
+    c = sc.conditions
     result = play([st], c, incoming)
     if csv_path is not None:
         export.write_frame(csv_path, result.trajectory_frame(step))
@@ -175,24 +145,21 @@ def _incoming(sc, st, contact, incoming_speed, incoming_spin):
 @click.command()
 @click.argument("scenario", default="demo")
 @condition_options
-@FRICTION_ONLY
-@DEFORMING_BALL
 @click.option(
     "--out", "out_dir", default=None, help="Write the table, trajectories and figures here."
 )
 @dt_option
 @force_option("Overwrite existing files in --out.")
 @json_option("Print the shots as a JSON list.")
-def compare(scenario, ball, racket, air, surface_name, receiver_plane, friction_only,
-            deforming_ball, out_dir, dt, force, as_json):  # fmt: skip
+def compare(scenario, overrides, out_dir, dt, force, as_json):
     """Every stroke variant of a scenario side by side (default: the demo scenario)."""
     from rallyarc.output.tables import comparison_table
     from rallyarc.shot import play
 
-    sc = scenario_with(scenario, ball, racket, air, surface_name, receiver_plane, "SCENARIO")
+    sc = scenario_with(scenario, overrides, "SCENARIO")
     step = time_step(dt)
     folder = output_folder(out_dir, COMPARE_OUTPUTS, force)
-    c = _played_conditions(sc, friction_only, deforming_ball)
+    c = sc.conditions
     result = play(sc.strokes, c, incoming_ball(sc))
     records = [result.record(i) for i in range(len(result))]
     title = (

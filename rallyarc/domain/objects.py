@@ -193,6 +193,18 @@ class Conditions:
         object.__setattr__(self, "_flight_params", params)
 
     @property
+    def modes(self):
+        """The physics modes played that are not the defaults, in words (empty when none)."""
+        return tuple(
+            text
+            for on, text in (
+                (self.friction_only, "friction alone at the racket"),
+                (not self.deforming_ball, "rigid ball at the bounce"),
+            )
+            if on
+        )
+
+    @property
     def string_tangential_restitution(self):
         """Tangential restitution of the strings as played: the racket's, or 0 when
         :attr:`friction_only`."""

@@ -1,5 +1,6 @@
 """The shot, compare and presets commands: JSON shapes, written files, and one-line errors."""
 
+import dataclasses
 import json
 import subprocess
 import sys
@@ -181,3 +182,32 @@ def test_rigid_ball_flag_changes_only_the_bounce():
     table = run("shot", "--stroke", "kick_serve", "--scenario", "serve_demo", "--rigid-ball")
     assert table.exit_code == 0 and "rigid ball at the bounce" in table.output
     assert "rigid ball" not in run("compare", "serve_demo").output
+
+
+def test_figure_and_page_commands_take_the_physics_modes(tmp_path):
+    # every command that plays a scenario takes --friction-only and --rigid-ball, and names the
+    # modes that are on where it names the conditions
+    from rallyarc import domain
+    from rallyarc.shot import play
+    from rallyarc.viz.side import _side_title
+
+    modes = ["--friction-only", "--rigid-ball"]
+    for args in (
+        ["plot", "side", "serve_demo", "--out", tmp_path / "side.png"],
+        ["plot", "top", "--out", tmp_path / "top.png"],
+        ["plot", "sweep", "--steps", "3", "--out", tmp_path / "sweep.png"],
+        ["plot", "window", "--steps", "3", "--out", tmp_path / "window.png"],
+        ["aim", "stroke", "--target", "10,2"],
+    ):
+        result = run(*args, *modes)
+        assert result.exit_code == 0, (args, result.output)
+    page = tmp_path / "page.html"
+    assert run("report", "--no-studies", "-o", page, *modes).exit_code == 0
+    text = page.read_text(encoding="utf-8")
+    assert "rigid ball" in text and "friction alone" in text
+    sc = domain.load_scenario("serve_demo")
+    plain = play(sc.strokes, sc.conditions, None, record=False)
+    assert "rigid ball" not in _side_title(plain)
+    rigid = dataclasses.replace(sc.conditions, deforming_ball=False, friction_only=True)
+    title = _side_title(play(sc.strokes, rigid, None, record=False))
+    assert "friction alone at the racket; rigid ball at the bounce" in title
