@@ -170,6 +170,9 @@ def aim_feed_cmd(machine, position, target, spin, speed, height, scenario, overr
     """
     from rallyarc.aim import aim_feed, load_machine
 
+    if overrides.friction_only:
+        raise InputError("--friction-only: a fed ball meets no racket, so there is no spring-back "
+                         "to leave out; drop the option")  # fmt: skip
     sc = scenario_with(scenario, overrides)
     mach = load_machine(machine)
     mx, my = court_point(position, "--at")

@@ -254,6 +254,7 @@ CASES = [
     ("aim feed", "--target 5,0 --speed 60km/h", E, ["--target", "other side"]),
     ("aim feed", "--target -8,0 --speed 60km/h --height 1", E, ["--speed/--height"]),
     ("aim feed", "--target -8,0", E, ["--speed/--height"]),
+    ("aim feed", "--target -8,0 --height 1.2 --friction-only", E, ["--friction-only", "racket"]),
     ("aim feed", "--target -8,0 --speed 60km/h --spin 9000", E, ["--spin", "8000"]),
     ("aim feed", "--target -8,0 --height 9", E, ["--height", "0.1", "4"]),
     ("aim feed", "--target -8,0 --speed 60km/h --machine nosuch", E, ["machine preset"]),
