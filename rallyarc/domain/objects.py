@@ -158,8 +158,9 @@ class Conditions:
     #: The court bounce of a compressing ball (:func:`rallyarc.bounce.deform.bounce_deforming`,
     #: the default): the court's friction acts at the flattened contact, below the centre, so a
     #: fast sliding ball picks up less spin than a rigid one (about twice its spin in, as
-    #: high-speed video of fast serves shows, where a rigid ball gains three and a half times:
-    #: ``tests/validation``). False: a rigid ball (:func:`rallyarc.bounce.contact.bounce`).
+    #: high-speed camera measurements of fast serves show, where a rigid ball gains three and a
+    #: half times: ``tests/validation``). False: a rigid ball
+    #: (:func:`rallyarc.bounce.contact.bounce`).
     deforming_ball: bool = True
 
     def flight_params(self):

@@ -171,12 +171,12 @@ _STRING_COR = (
 #: professional play on a hard court.
 _SERVE_BOUNCE_SPIN = (
     "J. Yandell, 'Ball Spin in Pro Tennis, Part 2' (tennisplayer.net; Advanced Tennis Research "
-    "Project, high-speed video of professional matches on a hard court): the bounce 'more than "
-    "doubled the amount of spin already on the ball in the air'; first serves of 130 mph at "
-    "2400 rpm on average left the court with about 4800 rpm (the same author, as quoted in the "
-    "press). Band 2.0 to 2.5: 'more than doubled' sets the low end; the high end is this "
-    "project's reading of 'doubles', not a published scatter. Modelled as pure topspin on the "
-    "hard-court preset; with part of the 2400 rpm as sidespin the ratio is lower"
+    "Project, high-speed camera measurements in professional matches on a hard court): the bounce "
+    "'more than doubled the amount of spin already on the ball in the air'; first serves of 130 mph"
+    " at 2400 rpm on average left the court with about 4800 rpm (the same author, as quoted in the "
+    "press). Band 2.0 to 2.5: 'more than doubled' sets the low end; the high end is this project's "
+    "reading of 'doubles', not a published scatter. Modelled as pure topspin on the hard-court "
+    "preset; with part of the 2400 rpm as sidespin the ratio is lower"
 )
 
 
