@@ -267,6 +267,19 @@ def _check_alpha(alpha: ArrayLike) -> NDArray[np.float64]:
     return a
 
 
+def _slide_or_grip(approaching, friction_limit, grip_impulse, surface):
+    """The slide-or-grip rule on per-unit-mass impulses: ``grip`` where friction can give the
+    grip impulse, ``stopped`` where it can at least stop the contact point (the grip impulse
+    over ``1 + e_t``), and the friction impulse applied (0 where the ball is not approaching)."""
+    slides = friction_limit < grip_impulse
+    grip = approaching & ~slides
+    stopped = approaching & (
+        friction_limit * (1.0 + surface.tangential_restitution) >= grip_impulse
+    )
+    impulse = np.where(approaching, np.where(slides, friction_limit, grip_impulse), 0.0)
+    return grip, stopped, impulse
+
+
 def bounce(
     velocity: ArrayLike,
     spin: ArrayLike,
@@ -389,12 +402,7 @@ def bounce(
     )
     grip_impulse = a * (1.0 + surface.tangential_restitution) * slip_speed / (1.0 + a)
     friction_limit = surface.friction * normal_impulse
-    slides = friction_limit < grip_impulse
-    grip = approaching & ~slides
-    stopped = approaching & (
-        friction_limit * (1.0 + surface.tangential_restitution) >= grip_impulse
-    )
-    impulse = np.where(approaching, np.where(slides, friction_limit, grip_impulse), 0.0)
+    grip, stopped, impulse = _slide_or_grip(approaching, friction_limit, grip_impulse, surface)
 
     ux, uy = direction[..., 0], direction[..., 1]
     velocity_out = np.stack(

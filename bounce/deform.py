@@ -17,6 +17,7 @@ from .contact import (
     _check_alpha,
     _check_radius,
     _per_ball,
+    _slide_or_grip,
     _vectors,
     normal_restitution,
 )
@@ -183,8 +184,7 @@ def bounce_deforming(
     )
     grip_impulse = a_eff * (1.0 + surface.tangential_restitution) * slip_speed / (1.0 + a_eff)
     friction_limit = surface.friction * normal_impulse
-    slides = friction_limit < grip_impulse
-    impulse = np.where(approaching, np.where(slides, friction_limit, grip_impulse), 0.0)
+    grip, stopped, impulse = _slide_or_grip(approaching, friction_limit, grip_impulse, surface)
 
     ux, uy = direction[..., 0], direction[..., 1]
     velocity_out = np.stack(
@@ -203,10 +203,8 @@ def bounce_deforming(
     return BounceResult(
         velocity=velocity_out,
         spin=spin_out,
-        grip=np.asarray(approaching & ~slides),
-        stopped=np.asarray(
-            approaching & (friction_limit * (1.0 + surface.tangential_restitution) >= grip_impulse)
-        ),
+        grip=np.asarray(grip),
+        stopped=np.asarray(stopped),
         normal_impulse=np.asarray(normal_impulse),
         tangential_impulse=np.asarray(impulse),
         slip_in=slip_in,
