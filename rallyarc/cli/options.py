@@ -11,7 +11,7 @@ from __future__ import annotations
 import functools
 import math
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, fields
 from pathlib import Path
 
 import click
@@ -242,7 +242,7 @@ class Overrides:
     deforming_ball: bool = True
 
 
-_OVERRIDE_KEYS = tuple(Overrides.__dataclass_fields__)
+_OVERRIDE_KEYS = tuple(f.name for f in fields(Overrides))
 
 
 def condition_options(func):
