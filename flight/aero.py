@@ -62,9 +62,10 @@ class CrossLindseyAero:
     -----
     Cross and Lindsey filmed balls in free flight at 15-30 m/s with up to 2500 rpm and found
     ``C_D = 0.507 +- 0.024``, independent of speed and spin, and a lift coefficient rising with spin
-    with scatter; the paper gives a band rather than a fitted curve. This model pairs their
-    constant drag with Stepanek's lift curve ``C_L = S / (2.022 S + 0.981)``, which runs through
-    that band (the pairing is this project's choice, common practice for a lift model).
+    with scatter. This model pairs their constant drag with Stepanek's wind-tunnel lift curve
+    ``C_L = S / (2.022 S + 0.981)`` (the pairing is this project's choice). Their lift values
+    could not be read for this project, so the curve is checked against free flight only for
+    its direction: it rises with spin, as they measured (``tests/validation``).
 
     Range of validity: new balls in free flight at 15-30 m/s with topspin or backspin up to
     2500 rpm (spin parameter up to about 0.6 at 15 m/s, 0.3 at 30 m/s). Faster serves and

@@ -37,9 +37,11 @@ def render():
     for case in CASES:
         value = case.value()
         unit = "" if case.unit == "-" else f" {case.unit}"
+        published = case.published_text or f"{_number(case.published)}{unit}"
+        band = case.band_text or f"{_number(case.low)} to {_number(case.high)}{unit}"
         rows.append(
-            f"| {case.quantity} | {_number(case.published)}{unit}: {case.source} "
-            f"| {_number(case.low)} to {_number(case.high)}{unit} | {_number(value)}{unit} "
+            f"| {case.quantity} | {published}: {case.source} "
+            f"| {band} | {_number(value)}{unit} "
             f"| {'yes' if case.within(value) else 'no'} |"
         )
     return HEADER + "\n".join(rows) + "\n"
