@@ -12,6 +12,8 @@ import sys
 import click
 
 from rallyarc.cli.options import (
+    DEFORMING_BALL,
+    FRICTION_ONLY,
     force_option,
     json_option,
     loaded,
@@ -57,17 +59,31 @@ LONG_RUN = 20_000
     help="Processes (1 to 64, or auto: one per core); the tables do not depend on it.",
 )
 @click.option("--quiet", is_flag=True, help="No progress bar.")
+@FRICTION_ONLY
+@DEFORMING_BALL
 @json_option("Print the summary as JSON.")
-def rally(patterns, rallies, seed, max_shots, out_dir, force, workers, quiet, as_json):
+def rally(
+    patterns,
+    rallies,
+    seed,
+    max_shots,
+    out_dir,
+    force,
+    workers,
+    quiet,
+    friction_only,
+    deforming_ball,
+    as_json,
+):
     """Play a pattern pair (a preset name or a TOML file) over many rallies with execution
     scatter: per-shot table, summary and figures."""
-    from rallyarc.rally import load_patterns, play_rallies, summarize, summary_lines
+    from rallyarc.rally import load_patterns, play_rallies, summarize, summary_lines, with_modes
 
     n = whole(rallies, "--rallies", 1, MAX_RALLIES)
     s = whole(seed, "--seed", 0, 2**32 - 1)
     limit = None if max_shots is None else whole(max_shots, "--max-shots", 1, 200)
     procs = (os.cpu_count() or 1) if workers == "auto" else whole(workers, "--workers", 1, 64)
-    pat = loaded("PATTERNS", load_patterns, patterns)
+    pat = with_modes(loaded("PATTERNS", load_patterns, patterns), friction_only, deforming_ball)
     folder = output_folder(out_dir, OUTPUTS, force)
     progress = not quiet and not as_json and sys.stderr.isatty()
     if n >= LONG_RUN and not quiet:

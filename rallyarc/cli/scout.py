@@ -18,6 +18,8 @@ import os
 import click
 
 from rallyarc.cli.options import (
+    DEFORMING_BALL,
+    FRICTION_ONLY,
     force_option,
     json_option,
     loaded,
@@ -44,11 +46,16 @@ def scout():
 @click.option("--workers", default="auto", show_default=True, help="Processes (1 to 64, or auto).")
 @click.option("--out", "out_dir", default=None, help="Write comparison.json and the figure here.")
 @force_option("Overwrite existing files in --out.")
+@FRICTION_ONLY
+@DEFORMING_BALL
 @json_option("Print the comparison as JSON.")
-def compare(base, variants, rallies, seed, workers, out_dir, force, as_json):
+def compare(
+    base, variants, rallies, seed, workers, out_dir, force, friction_only, deforming_ball, as_json
+):
     """Play BASE and each VARIANT (preset names or TOML files) on common random numbers and
-    report the differences from BASE with 95 % intervals."""
-    from rallyarc.rally import load_patterns
+    report the differences from BASE with 95 % intervals (every one in the same physics
+    modes)."""
+    from rallyarc.rally import load_patterns, with_modes
     from rallyarc.rally.whatif import compare as run_compare
     from rallyarc.rally.whatif import comparison_lines
 
@@ -57,6 +64,7 @@ def compare(base, variants, rallies, seed, workers, out_dir, force, as_json):
     procs = (os.cpu_count() or 1) if workers == "auto" else whole(workers, "--workers", 1, 64)
     pats = [loaded("BASE", load_patterns, base)]
     pats += [loaded("VARIANTS", load_patterns, v) for v in variants]
+    pats = [with_modes(p, friction_only, deforming_ball) for p in pats]
     labels = [base, *variants]
     folder = output_folder(out_dir, COMPARE_OUTPUTS, force)
     out = run_compare(pats, n=n, seed=s, workers=procs, labels=labels)

@@ -40,6 +40,7 @@ from rallyarc.rally.patterns import (
     PatternShot,
     Player,
     load_patterns,
+    with_modes,
     with_scatter,
 )
 from rallyarc.rally.runner import BLOCK, RallyRun, play_rallies
@@ -87,5 +88,6 @@ __all__ = [
     "summary_lines",
     "swing_of",
     "to_other_end",
+    "with_modes",
     "with_scatter",
 ]

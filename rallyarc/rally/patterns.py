@@ -281,6 +281,21 @@ def load_patterns(name_or_path):
     )
 
 
+def with_modes(patterns, friction_only=False, deforming_ball=True):
+    """The same patterns played in the given physics modes (:class:`rallyarc.domain.Conditions`
+    ``friction_only`` and ``deforming_ball``) by both players."""
+    players = tuple(
+        replace(
+            p,
+            conditions=replace(
+                p.conditions, friction_only=friction_only, deforming_ball=deforming_ball
+            ),
+        )
+        for p in patterns.players
+    )
+    return replace(patterns, players=players)
+
+
 def with_scatter(patterns, factor, ends=ENDS):
     """The same patterns with every execution scatter SD of the players at ``ends`` (both by
     default) multiplied by ``factor``."""

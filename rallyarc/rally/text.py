@@ -57,7 +57,8 @@ def _head_lines(summary, names):
     ci = summary["points_share_interval"]
     return [
         f"{summary['patterns']} ({summary['club']}): {summary['rallies']} rallies, seed "
-        f"{summary['seed']}, at most {summary['max_shots']} shots",
+        f"{summary['seed']}, at most {summary['max_shots']} shots"
+        + "".join(f"; {mode}" for mode in summary.get("modes", ())),
         "points: "
         + ", ".join(
             f"{n} {summary['points'][n]} ({pct(summary['points_share'][n])} %, 95 % interval "

@@ -61,7 +61,8 @@ def compare(variants, n=2000, seed=0, max_shots=None, workers=1, labels=None):
     labels = list(labels or [v.name for v in variants])
     runs = [play_rallies(v, n=n, seed=seed, max_shots=max_shots, workers=workers) for v in variants]
     base_ind, base_done = _indicators(runs[0])
-    out = {"rallies": int(n), "seed": int(seed), "base": labels[0], "variants": []}
+    modes = list(variants[0].players[0].conditions.modes)
+    out = {"rallies": int(n), "seed": int(seed), "base": labels[0], "modes": modes, "variants": []}
     for label, run in zip(labels, runs, strict=True):
         ind, done = _indicators(run)
         both = base_done & done
@@ -88,6 +89,7 @@ def comparison_lines(comparison):
     lines = [
         f"what-if against {comparison['base']}: {comparison['rallies']} rallies on common random "
         f"numbers, seed {comparison['seed']}; differences in percentage points (95 % interval)"
+        + "".join(f"; {mode}" for mode in comparison.get("modes", ()))
     ]
     for v in comparison["variants"]:
         lines.append(f"{v['label']}: near player wins {with_interval(v['points_won']['near'])}")

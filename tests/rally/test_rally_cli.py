@@ -80,3 +80,32 @@ def test_cli_bad_pattern_names(tmp_path):
     target.write_text("x")
     res = run_cli("rally", "demo_match", "--rallies", "2", "--out", str(target))
     assert res.exit_code == 2 and "is a file" in res.output
+
+
+def test_cli_plays_the_rallies_in_the_modes_it_is_given():
+    # the bounce model and the strings' spring-back reach every shot of the rallies: the same
+    # seed gives other shots with --rigid-ball and with --friction-only, and the summary says
+    # which modes were played (the default run names none)
+    args = ["rally", "demo_match", "--rallies", "40", "--seed", "2", "--quiet", "--json"]
+    runs = {}
+    for flags in ((), ("--rigid-ball",), ("--friction-only",)):
+        res = run_cli(*args, *flags)
+        assert res.exit_code == 0, res.output
+        runs[flags] = json.loads(res.output)
+    default, rigid, friction = runs.values()
+    assert default["modes"] == [] and default["bounce_model"] == "deforming ball"
+    assert rigid["modes"] == ["rigid ball at the bounce"] and rigid["bounce_model"] == "rigid ball"
+    assert friction["modes"] == ["friction alone at the racket"] and friction["friction_only"]
+    for other in (rigid, friction):
+        assert other["spin_exchange"] != default["spin_exchange"]
+    text = run_cli(*args[:-1], "--rigid-ball").output
+    assert "; rigid ball at the bounce" in text.splitlines()[0]
+
+
+def test_with_modes_sets_both_players_conditions():
+    from rallyarc.rally import load_patterns, with_modes
+
+    pats = with_modes(load_patterns("demo_match"), friction_only=True, deforming_ball=False)
+    for p in pats.players:
+        assert p.conditions.friction_only and not p.conditions.deforming_ball
+        assert p.conditions.string_tangential_restitution == 0.0

@@ -48,3 +48,20 @@ def test_scout_compare_cli_writes_json_and_figure(write_patterns, pattern_text, 
     assert data["rallies"] == 12 and len(data["variants"]) == 2
     res = CliRunner().invoke(main, ["scout", "compare", a, b, "--rallies", "0"])
     assert res.exit_code == 2 and len(res.output.strip().splitlines()) == 1
+
+
+def test_scout_compare_plays_every_variant_in_the_modes_given(write_patterns, pattern_text):
+    from click.testing import CliRunner
+
+    from rallyarc.cli import main
+
+    a = write_patterns(pattern_text((3.0, 1.0, 2.0, 0.4), zone=True, max_shots=4), "a.toml")
+    args = ["scout", "compare", a, a, "--rallies", "12", "--workers", "1", "--json"]
+    default = json.loads(CliRunner().invoke(main, args).output)
+    res = CliRunner().invoke(main, [*args, "--rigid-ball"])
+    assert res.exit_code == 0, res.output
+    rigid = json.loads(res.output)
+    assert default["modes"] == [] and rigid["modes"] == ["rigid ball at the bounce"]
+    # the base against itself still differs by nothing in the other mode
+    for d in rigid["variants"][1]["difference_from_base"].values():
+        assert d["difference"] in (0.0, None)
