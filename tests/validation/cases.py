@@ -312,13 +312,18 @@ CASES = (
     Case(
         "forehand_ball_speed",
         "ball speed of the topspin drive swung at 33.1 m/s against a 20 m/s ball",
-        "Landlinger et al. (2010), J. Sports Sci. Med. 9:643: racket 33.1 +- 2.4 m/s "
-        "(professionals); ball speed ~ rally 110.1 +- 10.2 km/h (men), Bower & Cross (2005), "
+        "Landlinger et al. (2010), J. Sports Sci. Med. 9:643: peak horizontal racquet "
+        "velocity 33.1 +- 2.4 m/s (professionals; markers on the racquet head, the shaft and "
+        "at 3 and 9 o'clock; the six fastest strokes in each direction against machine balls "
+        "at 20 m/s); ball speed ~ rally 110.1 +- 10.2 km/h (men), Bower & Cross (2005), "
         "J. Sports Sci.; elite men 117 km/h (Sports Eng. 11:31, 2008); internationally ranked "
         "men's forehands in play 33.9 m/s (122 km/h) with 1,480 rpm, Choppin, Goodwill & Haake "
-        "(2011), Sports Eng. 13:163. The study tracked "
-        "markers on the racquet head and shaft; the model's head speed is the impact point's, "
-        "and which point the published racquet velocity belongs to is not confirmed here",
+        "(2011), Sports Eng. 13:163. The ball speeds come from other studies than the racquet "
+        "speed, and the model's head speed is the impact point's just before impact: "
+        "collegiate players' racquet head moved at 15.4 +- 1.4 m/s horizontally, rising at "
+        "18.6 +- 4.3 deg, just before impact (Kwon et al. 2017, J. Sports Sci. Med. 16:505, "
+        "abstract). Published forehand racquet speeds differ twofold with what is measured, so "
+        "this gap may lie in the comparison as much as in the model",
         117.0,
         107.0,
         127.0,
