@@ -226,6 +226,10 @@ SCHEMAS = {
         "seed": Key(int, 0, 2**63 - 1),
         "chunk": Key(int, 1, 1e6, required=False),
         "scheduler": Key(str, required=False),
+        # physics modes of every point (rallyarc.domain.Conditions): friction alone at the
+        # racket, and the court bounce of a compressing (default) or rigid ball
+        "friction_only": Key(bool, required=False),
+        "deforming_ball": Key(bool, required=False),
         "parameters": Key(
             "tables",
             table={

@@ -102,6 +102,14 @@ class Study:
     base: object  # shots: (stroke, conditions, incoming or None); rallies: (patterns, limit)
 
     @property
+    def modes(self):
+        """The physics modes every point plays that are not the defaults, in words
+        (:attr:`rallyarc.domain.Conditions.modes`)."""
+        if self.kind == "rallies":
+            return self.base[0].players[0].conditions.modes
+        return self.base[1].modes
+
+    @property
     def blocks(self):
         """Chunks per design point (rallies) or 1 (shots)."""
         return -(-self.rallies // self.chunk) if self.kind == "rallies" else 1
@@ -265,14 +273,21 @@ def _base(data, kind, params, where):
             raise InputError(
                 f"{where}: key {key!r} is for a {'shots' if kind == 'rallies' else 'rallies'} study"
             )
+    modes = {
+        "friction_only": data.get("friction_only", False),
+        "deforming_ball": data.get("deforming_ball", True),
+    }
     if kind == "rallies":
-        from rallyarc.rally.patterns import load_patterns
+        from rallyarc.rally.patterns import load_patterns, with_modes
 
-        patterns = config.referenced(data, "patterns", load_patterns)
+        patterns = with_modes(config.referenced(data, "patterns", load_patterns), **modes)
         return (patterns, data.get("max_shots", int(patterns.max_shots))), data["rallies"]
+    from dataclasses import replace
+
     from rallyarc import domain
 
     scenario = config.referenced(data, "scenario", domain.load_scenario)
+    scenario = replace(scenario, conditions=replace(scenario.conditions, **modes))
     stroke = config.referenced(data, "stroke", domain.load_stroke)
     incoming = None
     if stroke.kind == "serve":

@@ -110,6 +110,7 @@ class Store:
                 "design": s.design,
                 "seed": s.seed,
                 "fingerprint": s.fingerprint,
+                "modes": list(s.modes),
                 "chunks": s.n_chunks,
                 "chunk": s.chunk,
                 "parameters": [

@@ -89,6 +89,7 @@ def summarize_study(folder, batch_size=65_536):
         "study": manifest["study"],
         "kind": manifest["kind"],
         "design": manifest["design"],
+        "modes": manifest.get("modes", []),
         "complete": manifest["complete"],
         "shots": shots,
         "parameters": [_finish(p, c, a) for p, (c, _), a in zip(params, groups, acc, strict=True)],
@@ -142,7 +143,8 @@ def _finish(p, centres, a):
 
 def summary_lines(summary):
     """The summary as text: per parameter, one line per group."""
-    lines = [f"{summary['study']}: {summary['shots']} shots ({summary['design']} design)"]
+    modes = "".join(f"; {mode}" for mode in summary.get("modes", ()))
+    lines = [f"{summary['study']}: {summary['shots']} shots ({summary['design']} design){modes}"]
     for p in summary["parameters"]:
         lines.append(f"{p['name']} [{p['unit']}]     shots   in%  net%  long%  depth q50  apex q50")
         for i, v in enumerate(p["values"]):

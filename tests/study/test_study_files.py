@@ -85,3 +85,23 @@ def test_run_resume_refusal_and_summary_from_the_command_line(study_file, shots_
     assert "NaN" not in res.output and (tmp_path / "fx.png").stat().st_size > 0
     res = _cli(["study", "summary", str(out), "--figure", str(tmp_path / "fx.png")])
     assert res.exit_code == 2 and "--force" in res.output
+
+
+def test_a_study_plays_every_point_in_the_modes_its_file_names(
+    study_file, shots_text, rallies_text
+):
+    plain = load_study(study_file(shots_text(), "plain.toml"))
+    rigid = load_study(
+        study_file(shots_text().replace("seed = 5", "seed = 5\ndeforming_ball = false"), "r.toml")
+    )
+    assert plain.modes == () and plain.base[1].deforming_ball
+    assert rigid.modes == ("rigid ball at the bounce",) and not rigid.base[1].deforming_ball
+    assert rigid.fingerprint != plain.fingerprint  # a stored dataset is never resumed across modes
+    rallies = load_study(
+        study_file(rallies_text.replace("seed = 3", "seed = 3\nfriction_only = true"), "f.toml")
+    )
+    assert rallies.modes == ("friction alone at the racket",)
+    assert all(p.conditions.friction_only for p in rallies.base[0].players)
+    bad = study_file(shots_text().replace("seed = 5", "seed = 5\nfriction_only = 1"), "b.toml")
+    with pytest.raises(InputError, match="friction_only"):
+        load_study(bad)
