@@ -74,22 +74,23 @@ def _court_cor_fall():
 
 
 def _strings(theta_deg, racket, speed=23.0, backspin_rpm=0.0):
-    """A ball arriving at ``theta_deg`` to the string plane of the standard racket, with
-    ``backspin_rpm`` of backspin about the axis across its path, head-clamped (``racket``
-    False) or free (hand-held)."""
+    """Balls arriving at ``theta_deg`` (a number or an array: one ball per angle) to the string
+    plane of the standard racket, with ``backspin_rpm`` of backspin about the axis across
+    their path, head-clamped (``racket`` False) or free (hand-held)."""
     setup = domain.load_racket("standard")
     ball = domain.load_ball("itf_type2")
-    th = math.radians(theta_deg)
+    th = np.radians(np.atleast_1d(np.asarray(theta_deg, dtype=float)))
     n, a = np.array([0.0, 0.0, 1.0]), np.array([1.0, 0.0, 0.0])
-    v = np.array([speed * math.cos(th), 0.0, -speed * math.sin(th)])
+    v = np.stack([speed * np.cos(th), np.zeros_like(th), -speed * np.sin(th)], axis=1)
     # The ball travels toward +x onto the plane z = 0: spin about +y rolls it forward along
     # the strings, so backspin is about -y.
-    w = np.array([0.0, -backspin_rpm * RPM, 0.0])
+    w = np.tile([0.0, -backspin_rpm * RPM, 0.0], (th.size, 1))
+    face = np.zeros_like(v)
     args = (ball.mass, ball.radius, ball.alpha)
     coeffs = (setup.string_restitution, setup.string_friction, setup.string_tangential_restitution)
     if racket:
-        return hit(v, w, np.zeros(3), n, a, setup.racket, 0.52, 0.0, *args, *coeffs)
-    return collide(v, w, np.zeros(3), n, a, *args, 0.0, np.zeros((2, 2)), *coeffs)
+        return hit(v, w, face, n, a, setup.racket, 0.52, 0.0, *args, *coeffs)
+    return collide(v, w, face, n, a, *args, 0.0, np.zeros((2, 2)), *coeffs)
 
 
 #: The head-clamped spin measurements: 14 string setups (gut, polyester and nylon strings, each
@@ -116,7 +117,7 @@ def _slide_angle(racket):
     below it the ball slides throughout. Above it the ball grips, or grips and then slips back
     (``stopped``; the regimes "grip" and "grip-slip")."""
     angles = np.linspace(5.0, 89.0, 841)
-    stops = np.array([bool(_strings(t, racket).stopped[0]) for t in angles])
+    stops = np.asarray(_strings(angles, racket).stopped, dtype=bool)
     return angles[np.argmax(stops)]
 
 
