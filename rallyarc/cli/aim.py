@@ -9,19 +9,21 @@ import sys
 import click
 
 from rallyarc import units
+from rallyarc.cli.conditions import (
+    ball_state,
+    condition_options,
+    incoming_table,
+    scenario_with,
+)
 from rallyarc.cli.options import (
     SCENARIO_HELP,
-    ball_state,
     check_file,
-    condition_options,
     court_point,
     dt_option,
     emit,
     force_option,
-    incoming_table,
     json_option,
     number_text,
-    scenario_with,
     time_step,
 )
 from rallyarc.errors import InputError

@@ -12,7 +12,14 @@ import math
 import click
 
 from rallyarc import units
-from rallyarc.cli.options import DEFORMING_BALL, emit, json_option, loaded
+from rallyarc.cli.conditions import (
+    DEFORMING_BALL,
+)
+from rallyarc.cli.options import (
+    emit,
+    json_option,
+    loaded,
+)
 from rallyarc.errors import InputError
 from rallyarc.units import KMH_PER_MPS
 

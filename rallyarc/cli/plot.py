@@ -9,15 +9,17 @@ from __future__ import annotations
 import click
 
 from rallyarc import units
+from rallyarc.cli.conditions import (
+    condition_options,
+    load_strokes,
+    scenario_options,
+)
 from rallyarc.cli.options import (
     MOST_SCATTER,
-    condition_options,
     figure_output_option,
     figure_path,
-    load_strokes,
     play_shots,
     save_figure,
-    scenario_options,
     spread_options,
     spread_options_up_to,
     whole,

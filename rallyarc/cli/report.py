@@ -8,12 +8,14 @@ from __future__ import annotations
 
 import click
 
+from rallyarc.cli.conditions import (
+    load_strokes,
+    scenario_options,
+)
 from rallyarc.cli.options import (
     figure_path,
-    load_strokes,
     loaded,
     play_shots,
-    scenario_options,
     spread_options,
 )
 from rallyarc.errors import InputError

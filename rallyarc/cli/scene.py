@@ -5,11 +5,13 @@ from __future__ import annotations
 
 import click
 
+from rallyarc.cli.conditions import (
+    load_strokes,
+    scenario_options,
+)
 from rallyarc.cli.options import (
     figure_path,
-    load_strokes,
     play_shots,
-    scenario_options,
     spread_options,
 )
 from rallyarc.errors import InputError

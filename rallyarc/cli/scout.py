@@ -17,9 +17,11 @@ import os
 
 import click
 
-from rallyarc.cli.options import (
+from rallyarc.cli.conditions import (
     DEFORMING_BALL,
     FRICTION_ONLY,
+)
+from rallyarc.cli.options import (
     force_option,
     json_option,
     loaded,

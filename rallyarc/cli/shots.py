@@ -7,21 +7,23 @@ import math
 import click
 
 from rallyarc import units
+from rallyarc.cli.conditions import (
+    condition_options,
+    incoming_ball,
+    incoming_table,
+    scenario_with,
+)
 from rallyarc.cli.options import (
     SCENARIO_HELP,
     check_ball_point,
     check_file,
     check_stroke_fits,
-    condition_options,
     dt_option,
     emit,
     force_option,
-    incoming_ball,
-    incoming_table,
     json_option,
     loaded,
     output_folder,
-    scenario_with,
     time_step,
     write_folder,
 )
@@ -122,7 +124,9 @@ def _incoming(sc, st, contact, incoming_speed, incoming_spin):
     (None for a serve)."""
     from dataclasses import replace
 
-    from rallyarc.cli.options import ball_state
+    from rallyarc.cli.conditions import (
+        ball_state,
+    )
 
     if st.kind == "serve":
         if contact is not None:

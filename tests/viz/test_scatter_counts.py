@@ -7,7 +7,7 @@ import pytest
 from matplotlib.patches import Ellipse
 
 from rallyarc import domain, sweep
-from rallyarc.cli.options import ball_state
+from rallyarc.cli.conditions import ball_state
 from rallyarc.viz import top
 from rallyarc.viz.common import outcome_counts, outcome_shares_text
 

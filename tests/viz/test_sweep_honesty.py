@@ -4,7 +4,7 @@ receiver's height after the bounce only."""
 import numpy as np
 
 from rallyarc import domain, sweep
-from rallyarc.cli.options import ball_state
+from rallyarc.cli.conditions import ball_state
 from rallyarc.viz import sweeps
 
 
