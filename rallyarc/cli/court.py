@@ -129,7 +129,7 @@ def _bounce_lines(data):
 def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deforming_ball, as_json):
     """The ball after one bounce, in the bounce's frame (x along the ball's horizontal travel),
     with the shot chain's bounce: a compressing ball unless --rigid-ball."""
-    from rallyarc.domain import load_ball
+    from rallyarc.domain import bounce_model_name, load_ball
 
     if surface_name is None and friction is None and restitution is None:
         surface_name = "hard_medium"
@@ -154,7 +154,7 @@ def bounce(speed, angle, spin, surface_name, friction, restitution, ball, deform
             "ball": ball,
             "radius_m": preset.radius,
             "alpha": preset.alpha,
-            "bounce_model": "deforming ball" if deforming_ball else "rigid ball",
+            "bounce_model": bounce_model_name(deforming_ball),
         },
         # the fields of a shot's bounce block (rallyarc.shot.metrics), in the bounce's frame
         "bounce": {

@@ -122,6 +122,11 @@ class Stroke:
         return replace(self, swing_direction=swing_direction, face_azimuth=face)
 
 
+def bounce_model_name(deforming_ball):
+    """The court bounce model in words, as the outputs name it."""
+    return "deforming ball" if deforming_ball else "rigid ball"
+
+
 def court_bounce(ball, surface, velocity, spin, deforming_ball=True):
     """The court bounce of N balls of ``ball`` arriving with ``velocity`` and ``spin``
     ``(N, 3)`` on ``surface`` as this ball meets it (:func:`surface_for`), as the shot chain
@@ -192,6 +197,11 @@ class Conditions:
             wind=self.air.wind,
         )
         object.__setattr__(self, "_flight_params", params)
+
+    @property
+    def bounce_model(self):
+        """The court bounce played, in words: "deforming ball" or "rigid ball"."""
+        return bounce_model_name(self.deforming_ball)
 
     @property
     def modes(self):

@@ -237,7 +237,7 @@ def summarize(run):
         "seed": run.seed,
         "max_shots": run.max_shots,
         "friction_only": players[0].conditions.friction_only,
-        "bounce_model": "deforming ball" if players[0].conditions.deforming_ball else "rigid ball",
+        "bounce_model": players[0].conditions.bounce_model,
         "modes": list(players[0].conditions.modes),
         "shots": int(len(shots)),
         "players": {p.name: _player_facts(p) for p in players},

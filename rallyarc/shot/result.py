@@ -234,7 +234,7 @@ class ShotResult:
                 "receiver_plane_m": c.receiver_plane_m,
                 "singles": c.singles,
                 "friction_only": c.friction_only,
-                "bounce_model": "deforming ball" if c.deforming_ball else "rigid ball",
+                "bounce_model": c.bounce_model,
             }
         )
         return inputs
