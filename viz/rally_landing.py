@@ -16,7 +16,7 @@ from matplotlib.ticker import MaxNLocator
 
 from rallyarc import court
 from rallyarc.rally.stats import wilson
-from rallyarc.rally.text import with_interval
+from rallyarc.rally.text import modes_line, with_interval
 from rallyarc.viz import palette
 
 #: Landing heatmap cell [m] (about: the cells' edges fall on the baselines and sidelines).
@@ -178,7 +178,8 @@ def landing_heatmaps(shots, summary):
         bar.set_label(f"{what} per cell (about {CELL_M:g} m x {CELL_M:g} m)")
     fig.suptitle(
         f"{summary['patterns']}: where the balls land ({summary['rallies']} rallies)\n"
-        "singles court (doubles sidelines faint); shares with their 95 % interval",
+        "singles court (doubles sidelines faint); shares with their 95 % interval"
+        + modes_line(summary),
         fontsize=11,
     )
     return fig

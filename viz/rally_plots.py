@@ -17,7 +17,7 @@ from matplotlib.lines import Line2D
 from matplotlib.patches import Patch
 
 from rallyarc.output.export import atomic_write
-from rallyarc.rally.text import with_interval
+from rallyarc.rally.text import modes_line, with_interval
 from rallyarc.viz import palette
 from rallyarc.viz.rally_landing import (
     CELL_M,
@@ -114,7 +114,7 @@ def contact_height_histograms(shots, summary):
     )
     fig.suptitle(
         f"{summary['patterns']}: contact heights of the rally balls (serve returns included), "
-        f"shares with their 95 % interval\n{source}",
+        f"shares with their 95 % interval\n{source}" + modes_line(summary),
         fontsize=10,
     )
     return fig
@@ -229,7 +229,7 @@ def spin_exchange(shots, summary):
         f"{summary['patterns']}: the spin exchange of the rally balls (serve returns included)"
         + (f"\n{dom}'s balls reach the opponent with more topspin" if dom else "")
         + "\ntopspin relative to the ball's own travel; dotted: the racket adds no spin "
-        "(outgoing = - incoming)",
+        "(outgoing = - incoming)" + modes_line(summary),
         fontsize=10,
     )
     return fig
@@ -285,7 +285,7 @@ def whatif_differences(comparison):
     ax.set_xlabel("difference from the base [percentage points], 95 % interval")
     ax.set_title(
         f"what-if against {comparison['base']}: {comparison['rallies']} rallies, common random "
-        "numbers",
+        "numbers" + modes_line(comparison),
         fontsize=9,
     )
     if ax.get_legend_handles_labels()[0]:

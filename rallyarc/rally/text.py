@@ -52,13 +52,25 @@ def _statistics_lines(summary, names):
     return lines
 
 
+def modes_text(data):
+    """The physics modes a run played that are not the defaults (``data["modes"]``), as the
+    suffix of a heading: ``"; rigid ball at the bounce"``, empty for the defaults."""
+    return "".join(f"; {mode}" for mode in data.get("modes", ()))
+
+
+def modes_line(data):
+    """The same modes as a line of their own for a figure's title (``"\nplayed with: ..."``),
+    empty for the defaults."""
+    modes = data.get("modes", ())
+    return f"\nplayed with: {'; '.join(modes)}" if modes else ""
+
+
 def _head_lines(summary, names):
     length = summary["rally_length_shots"]
     ci = summary["points_share_interval"]
     return [
         f"{summary['patterns']} ({summary['club']}): {summary['rallies']} rallies, seed "
-        f"{summary['seed']}, at most {summary['max_shots']} shots"
-        + "".join(f"; {mode}" for mode in summary.get("modes", ())),
+        f"{summary['seed']}, at most {summary['max_shots']} shots{modes_text(summary)}",
         "points: "
         + ", ".join(
             f"{n} {summary['points'][n]} ({pct(summary['points_share'][n])} %, 95 % interval "

@@ -21,7 +21,7 @@ import numpy as np
 from rallyarc.output.jsonsafe import json_ready
 from rallyarc.rally.runner import play_rallies
 from rallyarc.rally.stats import Z95, match_statistics, share
-from rallyarc.rally.text import with_interval
+from rallyarc.rally.text import modes_text, with_interval
 
 #: Rally-level indicators compared between variants.
 INDICATORS = ("near_wins", "far_wins", "winners", "forced_errors", "unforced_errors")
@@ -89,7 +89,7 @@ def comparison_lines(comparison):
     lines = [
         f"what-if against {comparison['base']}: {comparison['rallies']} rallies on common random "
         f"numbers, seed {comparison['seed']}; differences in percentage points (95 % interval)"
-        + "".join(f"; {mode}" for mode in comparison.get("modes", ()))
+        + modes_text(comparison)
     ]
     for v in comparison["variants"]:
         lines.append(f"{v['label']}: near player wins {with_interval(v['points_won']['near'])}")

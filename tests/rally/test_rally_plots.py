@@ -116,3 +116,18 @@ def test_whatif_figure_labels_each_difference_with_its_interval(d, label):
     }
     fig = rally_plots.whatif_differences(comparison)
     assert label in _texts(fig)
+
+
+def test_figures_of_a_run_in_other_modes_name_them(write_patterns, pattern_text):
+    from rallyarc.rally import with_modes
+    from rallyarc.viz.rally_landing import landing_heatmaps
+
+    pat = load_patterns(write_patterns(pattern_text((3.0, 1.0, 2.0, 0.4), zone=True)))
+    for patterns, named in ((pat, False), (with_modes(pat, deforming_ball=False), True)):
+        run = play_rallies(patterns, n=12, seed=2, max_shots=4)
+        summary = summarize(run)
+        for draw in (rally_plots.contact_height_histograms, rally_plots.spin_exchange):
+            text = _texts(draw(run.shots, summary))
+            assert ("played with: rigid ball at the bounce" in text) is named
+        text = _texts(landing_heatmaps(run.shots, summary))
+        assert ("played with: rigid ball at the bounce" in text) is named
