@@ -46,3 +46,26 @@ def scattered_incoming():
         return sc, BallState(pos, vel, spin), rng
 
     return make
+
+
+@pytest.fixture(scope="session")
+def same_rallies():
+    """A check ``same(got, want, rtol, atol)`` that two rally runs played the same rallies: equal
+    rally tables and shot tables with the same columns and rows, floats within the tolerances
+    (NaN in the same places), everything else equal."""
+    import numpy as np
+    import pandas as pd
+
+    def same(got, want, rtol, atol):
+        pd.testing.assert_frame_equal(got.rallies, want.rallies)
+        assert list(got.shots.columns) == list(want.shots.columns)
+        assert len(got.shots) == len(want.shots) > 600
+        for col in want.shots.columns:
+            a, b = got.shots[col].to_numpy(), want.shots[col].to_numpy()
+            if b.dtype.kind == "f":
+                np.testing.assert_array_equal(np.isnan(a), np.isnan(b), err_msg=col)
+                np.testing.assert_allclose(a, b, rtol=rtol, atol=atol, err_msg=col)
+            else:
+                np.testing.assert_array_equal(a, b, err_msg=col)
+
+    return same

@@ -14,6 +14,7 @@ from pathlib import Path
 
 import numpy as np
 
+from rallyarc.rally.text import modes_text
 from rallyarc.study.store import partition_name, read_manifest
 
 #: Groups of a sampled (random or Latin hypercube) parameter's range.
@@ -143,8 +144,10 @@ def _finish(p, centres, a):
 
 def summary_lines(summary):
     """The summary as text: per parameter, one line per group."""
-    modes = "".join(f"; {mode}" for mode in summary.get("modes", ()))
-    lines = [f"{summary['study']}: {summary['shots']} shots ({summary['design']} design){modes}"]
+    lines = [
+        f"{summary['study']}: {summary['shots']} shots ({summary['design']} design)"
+        + modes_text(summary)
+    ]
     for p in summary["parameters"]:
         lines.append(f"{p['name']} [{p['unit']}]     shots   in%  net%  long%  depth q50  apex q50")
         for i, v in enumerate(p["values"]):

@@ -236,12 +236,9 @@ def _serve_speed_kept():
 
 
 def _drive_speed_kept():
-    from rallyarc.shot import BallState, play
+    import rallyarc
 
-    sc = domain.load_scenario("demo")
-    stroke = domain.load_stroke("topspin_drive")
-    pos, vel, spin = domain.incoming_state(sc.incoming)
-    shot = play([stroke], sc.conditions, BallState.of(pos, vel, spin))
+    shot = rallyarc.play("topspin_drive", "demo")
     return _speed_at_receiver(shot, shot.metrics["impact_speed_mps"][0])
 
 
